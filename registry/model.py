@@ -1,0 +1,124 @@
+"""Frozen records of the registry. Numbers are in canonical units: HLB and
+required HLB are dimensionless, densities are g/mL."""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from types import MappingProxyType
+from typing import Mapping
+
+# Water at 25 degC (IAPWS-95), used to turn a specific gravity 25/25 into a
+# density. The same figure stands in purified-water.toml with its source.
+WATER_DENSITY_25C_G_PER_ML = 0.9970476
+
+PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo", "density")
+
+
+@dataclass(frozen=True)
+class Source:
+    id: str
+    citation: str
+    kind: str
+    year: int | None = None
+    note: str | None = None
+
+
+@dataclass(frozen=True)
+class ValueRecord:
+    """One published (or measured) value of one property, with its provenance.
+
+    `low` and `high` are equal for a single figure; for a range they are its
+    ends and `figure` is the midpoint. Density values are in g/mL whatever
+    basis they were recorded on; `recorded` keeps them as written."""
+
+    property: str
+    low: float
+    high: float
+    source_id: str
+    status: str
+    locator: str | None = None
+    recalled_from_memory: bool = False
+    preferred: bool = False
+    preferred_reason: str | None = None
+    midpoint_of_range: bool = False
+    note: str | None = None
+    basis: str | None = None
+    temperature_c: float | None = None
+    recorded: Mapping[str, float] = field(default_factory=dict)
+
+    @property
+    def figure(self) -> float:
+        return (self.low + self.high) / 2.0
+
+    @property
+    def is_range(self) -> bool:
+        return self.low != self.high
+
+    @property
+    def is_verified(self) -> bool:
+        return self.status != "unverified"
+
+
+@dataclass(frozen=True)
+class Ingredient:
+    id: str
+    name: str
+    roles: tuple[str, ...]
+    ionic_class: str
+    physical_state: str
+    synonyms: tuple[str, ...] = ()
+    hlb_is_apparent: bool = False
+    note: str | None = None
+    values: Mapping[str, tuple[ValueRecord, ...]] = field(default_factory=dict)
+
+    def preferred(self, prop: str) -> ValueRecord | None:
+        """The preferred value of a property, or None when none is recorded."""
+        records = self.values.get(prop, ())
+        for record in records:
+            if record.preferred:
+                return record
+        return records[0] if records else None
+
+    def span(self, prop: str) -> tuple[float, float] | None:
+        """The lowest and highest figure any source gives, or None."""
+        records = self.values.get(prop, ())
+        if not records:
+            return None
+        return min(r.low for r in records), max(r.high for r in records)
+
+
+@dataclass(frozen=True)
+class HlbRange:
+    name: str
+    low: float
+    high: float
+
+
+@dataclass(frozen=True)
+class HlbRangeTable:
+    ranges: Mapping[str, HlbRange]
+    source_id: str
+    status: str
+    recalled_from_memory: bool
+    locator: str | None = None
+    note: str | None = None
+
+
+@dataclass(frozen=True)
+class Registry:
+    release: str
+    digest: str
+    ingredients: Mapping[str, Ingredient]
+    sources: Mapping[str, Source]
+    hlb_ranges: HlbRangeTable
+
+    @property
+    def version(self) -> str:
+        """Release and content digest in one token, e.g. '0.1.0+sha256.1a2b3c4d5e6f'."""
+        return f"{self.release}+sha256.{self.digest[:12]}"
+
+    def get(self, ingredient_id: str) -> Ingredient | None:
+        return self.ingredients.get(ingredient_id)
+
+
+def frozen_mapping(items: dict) -> Mapping:
+    return MappingProxyType(dict(items))

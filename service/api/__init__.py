@@ -1,0 +1,1 @@
+"""Thin blueprints: load the request, call a calculation or the registry, dump."""

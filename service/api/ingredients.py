@@ -1,0 +1,33 @@
+"""The registry, read-only, under /v1."""
+from __future__ import annotations
+
+from flask import Blueprint, current_app
+
+from service.api.io import answer, load_query
+from service.errors import ApiProblem
+from service import registry_views
+from service.schemas import ingredients as schemas
+
+bp = Blueprint("ingredients", __name__, url_prefix="/v1")
+
+QUERY = schemas.IngredientQuerySchema()
+LIST_OUT, ONE_OUT, SOURCES_OUT = schemas.IngredientListSchema(), schemas.IngredientAnswerSchema(), schemas.SourceListSchema()
+
+
+@bp.get("/ingredients")
+def list_ingredients():
+    return answer(LIST_OUT, registry_views.ingredient_list(current_app.extensions["registry"], load_query(QUERY)))
+
+
+@bp.get("/ingredients/<ingredient_id>")
+def get_ingredient(ingredient_id: str):
+    registry = current_app.extensions["registry"]
+    found = registry_views.ingredient_detail(registry, ingredient_id)
+    if found is None:
+        raise ApiProblem(404, "Not Found", f"no ingredient '{ingredient_id}' in the registry; GET /v1/ingredients lists them")
+    return answer(ONE_OUT, found)
+
+
+@bp.get("/sources")
+def list_sources():
+    return answer(SOURCES_OUT, registry_views.source_list(current_app.extensions["registry"]))

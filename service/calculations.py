@@ -1,0 +1,222 @@
+"""Each calculation end to end, between the loaded request and the answer:
+resolve ingredients, convert amounts, call the core, assemble the envelope.
+No Flask here; the API views only load, call one of these, and dump."""
+from __future__ import annotations
+
+from typing import Sequence
+
+from registry import Registry
+from service import methods
+from service.answers import envelope, hlb_display
+from service.core import findings as core_findings
+from service.core.amounts import ABSOLUTE, Amount
+from service.core.blend import blend_hlb
+from service.core.emulsifier import minimum_emulsifier
+from service.core.required_hlb import required_hlb
+from service.core.split import split_for_target, total_mass_from_volume
+from service.notices import apparent_hlb_warning, finding_warnings, solid_by_volume_warning
+from service.resolve import RHLB_PROPERTY, Resolved, amount, checked_density, density_value, invalid, resolve, scalar_value
+from service.units import to_canonical
+
+# Class A prescription balance (USP <1176>): sensitivity requirement 6 mg, and
+# the acceptable error pharmacies commonly work to, 5 %.
+DEFAULT_SENSITIVITY_G = 0.006
+DEFAULT_ERROR_PERCENT = 5.0
+# Balance increment a batch amount is rounded up to (common practice, no source).
+BATCH_INCREMENT_G = 0.01
+
+
+def _ranges(registry: Registry) -> dict[str, tuple[float, float]]:
+    return {name: (r.low, r.high) for name, r in registry.hlb_ranges.ranges.items()}
+
+
+def _densities(items: Sequence[Resolved], amounts: Sequence[Amount], registry: Registry, values_used: list) -> list[float | None]:
+    """Densities where amounts are absolute (to convert volumes, or to report
+    the volume of a mass); recorded in values_used when found."""
+    if not any(a.kind in ABSOLUTE for a in amounts):
+        return [None] * len(items)
+    out = []
+    for item in items:
+        found = density_value(item, registry)
+        if found is None:
+            out.append(None)
+            continue
+        out.append(found[0])
+        values_used.append(found[1])
+    return out
+
+
+def _required(item: Resolved, prop: str, inline_key: str, registry: Registry, values_used: list, what: str):
+    found = scalar_value(item, prop, inline_key, registry)
+    if found is None:
+        where = item.path + (("inline", inline_key) if item.record is None else ("ingredient",))
+        raise invalid(where, f"{prop}_known", f"no {what} is known for {item.label}: give it inline, or choose another ingredient")
+    values_used.append(found[1])
+    return found[0]
+
+
+def _component_inputs(items, given, weighed, fractions) -> list[dict]:
+    return [
+        {"ingredient": it.ingredient_id, "name": it.name, "origin": it.origin, "amount": dict(g),
+         "mass_g": w.mass_g, "volume_ml": w.volume_ml, "percent_w_w": f * 100.0}
+        for it, g, w, f in zip(items, given, weighed, fractions)
+    ]
+
+
+def _common_warnings(items: Sequence[Resolved], given: Sequence[dict]) -> list[dict]:
+    solids = [it.label for it, g in zip(items, given)
+              if to_canonical(1.0, g["unit"])[0] == "volume" and it.physical_state in ("solid", "semisolid")]
+    return solid_by_volume_warning(solids) + apparent_hlb_warning(it.label for it in items if it.hlb_is_apparent)
+
+
+def blend(data: dict, registry: Registry) -> dict:
+    components = data["components"]
+    items = [resolve(c, ("components", i), registry) for i, c in enumerate(components)]
+    values_used: list[dict] = []
+    hlbs = [_required(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
+    amounts = [amount(c["amount"]) for c in components]
+    densities = _densities(items, amounts, registry, values_used)
+    result = blend_hlb(hlbs, amounts, densities)
+    emulsion_type = data.get("emulsion_type")
+    warnings = finding_warnings([
+        *core_findings.ionic_findings([it.ionic_class for it in items]),
+        core_findings.usual_range_finding(result.hlb.figure, emulsion_type, _ranges(registry)),
+    ]) + _common_warnings(items, [c["amount"] for c in components])
+    return envelope(
+        result={"hlb": hlb_display(result.hlb.figure), "hlb_unrounded": result.hlb.figure,
+                "hlb_range": {"low": hlb_display(result.hlb.low), "high": hlb_display(result.hlb.high)},
+                "total_mass_g": result.total_mass_g},
+        inputs={"components": _component_inputs(items, [c["amount"] for c in components], result.weighed, result.hlb.fractions),
+                "emulsion_type": emulsion_type},
+        method=methods.BLEND_HLB, values_used=values_used, warnings=warnings, registry=registry,
+    )
+
+
+def _fixed_fractions(fixed: list[dict], total: dict | None) -> list[float]:
+    """Fixed shares as fractions of the blend: % w/w of the blend, or masses
+    of a total given as a mass."""
+    total_kind, total_value = to_canonical(total["value"], total["unit"]) if total else (None, None)
+    out = []
+    for i, f in enumerate(fixed):
+        kind, value = to_canonical(f["amount"]["value"], f["amount"]["unit"])
+        if kind == "percent_w_w":
+            out.append(value / 100.0)
+        elif kind == "mass" and total_kind == "mass":
+            out.append(value / total_value)
+        else:
+            raise invalid(("fixed", i, "amount", "unit"), "fixed_share_basis",
+                          "a fixed surfactant's share is given as % w/w of the blend, or as a mass when 'total' is a mass")
+    return out
+
+
+def split(data: dict, registry: Registry) -> dict:
+    values_used: list[dict] = []
+    pair = [resolve(r, ("pair", i), registry) for i, r in enumerate(data["pair"])]
+    fixed = data.get("fixed", [])
+    fixed_items = [resolve(f, ("fixed", i), registry) for i, f in enumerate(fixed)]
+    items = pair + fixed_items
+    hlbs = [_required(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
+    total = data.get("total")
+    fixed_fractions = _fixed_fractions(fixed, total)
+    target = data["target_hlb"]
+    solved = split_for_target(target, hlbs[:2], list(zip(fixed_fractions, hlbs[2:])))
+
+    total_mass = total_volume = None
+    densities: list[float | None] = [None] * len(items)
+    if total is not None:
+        densities = _densities(items, [Amount("mass", 1.0)], registry, values_used)
+        kind, value = to_canonical(total["value"], total["unit"])
+        if kind == "mass":
+            total_mass = value
+        else:
+            missing = [i for i, d in enumerate(densities) if d is None]
+            if missing:
+                it = items[missing[0]]
+                raise invalid(it.path, "density_needed_for_volume", f"a total given as a volume needs the density of every surfactant; none is known for {it.label}: give it with 'density'")
+            total_volume = value
+            total_mass = total_mass_from_volume(value, solved.fractions, densities)
+    surfactants = []
+    for i, (it, fraction, h, d) in enumerate(zip(items, solved.fractions, hlbs, densities)):
+        mass = fraction * total_mass if total_mass is not None else None
+        surfactants.append({
+            "ingredient": it.ingredient_id, "name": it.name, "role": "pair" if i < 2 else "fixed", "hlb": h.figure,
+            "percent_w_w": fraction * 100.0, "mass_g": mass,
+            "volume_ml": mass / d if mass is not None and d is not None else None,
+        })
+    emulsion_type = data.get("emulsion_type")
+    warnings = finding_warnings([
+        *core_findings.ionic_findings([it.ionic_class for it in items]),
+        core_findings.usual_range_finding(solved.hlb.figure, emulsion_type, _ranges(registry)),
+    ]) + apparent_hlb_warning(it.label for it in items if it.hlb_is_apparent)
+    return envelope(
+        result={"target_hlb": target, "hlb_reached": hlb_display(solved.hlb.figure),
+                "hlb_range": {"low": hlb_display(solved.hlb.low), "high": hlb_display(solved.hlb.high)},
+                "reachable_range": {"low": solved.reachable_low, "high": solved.reachable_high},
+                "surfactants": surfactants, "total_mass_g": total_mass, "total_volume_ml": total_volume},
+        inputs={"target_hlb": target, "total": dict(total) if total else None, "emulsion_type": emulsion_type},
+        method=methods.SPLIT, values_used=values_used, warnings=warnings, registry=registry,
+    )
+
+
+def oil_phase_rhlb(data: dict, registry: Registry) -> dict:
+    emulsion_type = data["emulsion_type"]
+    prop = RHLB_PROPERTY[emulsion_type]
+    oil = data["oil_phase"]
+    items = [resolve(c, ("oil_phase", i), registry) for i, c in enumerate(oil)]
+    counts = [c.get("counts_toward_rhlb", True) for c in oil]
+    values_used: list[dict] = []
+    rhlbs = [
+        _required(it, prop, "required_hlb", registry, values_used, f"{emulsion_type} required HLB") if count else None
+        for it, count in zip(items, counts)
+    ]
+    amounts = [amount(c["amount"]) for c in oil]
+    densities = _densities(items, amounts, registry, values_used)
+    result = required_hlb(rhlbs, amounts, densities, counts)
+    inputs = _component_inputs(items, [c["amount"] for c in oil], result.weighed, result.phase_fractions)
+    for row, count, counted in zip(inputs, counts, result.counted_fractions):
+        row["counts_toward_rhlb"] = count
+        row["percent_of_counted"] = counted * 100.0
+    return envelope(
+        result={"required_hlb": hlb_display(result.required_hlb.figure), "required_hlb_unrounded": result.required_hlb.figure,
+                "range": {"low": hlb_display(result.required_hlb.low), "high": hlb_display(result.required_hlb.high)},
+                "emulsion_type": emulsion_type, "oil_phase_mass_g": result.total_mass_g},
+        inputs={"emulsion_type": emulsion_type, "oil_phase": inputs},
+        method=methods.REQUIRED_HLB, values_used=values_used, warnings=_common_warnings(items, [c["amount"] for c in oil]),
+        registry=registry,
+    )
+
+
+def emulsifier_minimum(data: dict, registry: Registry) -> dict:
+    rho_s = checked_density(data["surfactant_density"], ("surfactant_density",))
+    rho_d = checked_density(data["dispersed_phase_density"], ("dispersed_phase_density",))
+    rhlb, q = data["required_hlb"], data["continuous_phase_percent"]
+    estimate = minimum_emulsifier(rho_s, rho_d, rhlb, q)
+    balance = data.get("balance", {})
+    sensitivity_g = to_canonical(**balance["sensitivity"])[1] if "sensitivity" in balance else DEFAULT_SENSITIVITY_G
+    error_percent = balance.get("acceptable_error_percent", DEFAULT_ERROR_PERCENT)
+    mwq_g = core_findings.minimum_weighable_quantity_g(sensitivity_g, error_percent)
+    batch = None
+    warnings = []
+    if "batch" in data:
+        batch_g = to_canonical(**data["batch"])[1]
+        need_g = estimate.g_per_100g / 100.0 * batch_g
+        weighable_g = max(core_findings.ceil_to(need_g, BATCH_INCREMENT_G), mwq_g)
+        if need_g < mwq_g:
+            warnings.append({"code": "below_minimum_weighable_quantity", "subject": "batch",
+                             "message": f"the estimate for this batch, {need_g:.4g} g, is below the balance's minimum weighable "
+                                        f"quantity of {mwq_g:g} g; the weighable amount shown is raised to it. Use a finer balance, "
+                                        "or an aliquot method, to weigh less."})
+        batch = {"batch_mass_g": batch_g, "emulsifier_mass_g": need_g, "emulsifier_mass_g_weighable": weighable_g,
+                 "minimum_weighable_quantity_g": mwq_g}
+    if rhlb > 18.0:
+        warnings.append({"code": "required_hlb_near_singularity", "subject": "required_hlb",
+                         "message": f"a required HLB of {rhlb:g} is near the formula's singularity at 20; the estimate grows without bound there and is unreliable"})
+    return envelope(
+        result={"g_per_100g": estimate.g_per_100g, "g_per_100g_rounded_up": estimate.g_per_100g_rounded_up,
+                "basis": "grams of emulsifier per 100 g of emulsion (% w/w); the basis is inferred from the formula's percentage inputs",
+                "batch": batch},
+        inputs={"required_hlb": rhlb, "surfactant_density_g_per_ml": rho_s, "dispersed_phase_density_g_per_ml": rho_d,
+                "continuous_phase_percent": q, "batch_mass_g": batch["batch_mass_g"] if batch else None,
+                "balance_sensitivity_g": sensitivity_g, "acceptable_error_percent": error_percent},
+        method=methods.MINIMUM_EMULSIFIER, values_used=[], warnings=warnings, registry=registry,
+    )

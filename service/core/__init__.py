@@ -1,0 +1,1 @@
+"""Pure emulsion calculations. See README.md in this folder for the rule."""

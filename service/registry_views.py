@@ -1,0 +1,63 @@
+"""The registry as the read-only endpoints show it."""
+from __future__ import annotations
+
+from registry import Ingredient, Registry, ValueRecord
+from registry.model import PROPERTIES
+from service.answers import registry_version
+
+
+def _figure(ing: Ingredient, prop: str) -> float | None:
+    record = ing.preferred(prop)
+    return record.figure if record else None
+
+
+def summary(ing: Ingredient) -> dict:
+    return {
+        "id": ing.id, "name": ing.name, "roles": list(ing.roles), "ionic_class": ing.ionic_class,
+        "physical_state": ing.physical_state, "hlb": _figure(ing, "hlb"),
+        "required_hlb_ow": _figure(ing, "required_hlb_ow"), "required_hlb_wo": _figure(ing, "required_hlb_wo"),
+        "density_g_per_ml": _figure(ing, "density"),
+        "all_values_verified": all(r.is_verified for records in ing.values.values() for r in records),
+    }
+
+
+def _record(registry: Registry, r: ValueRecord) -> dict:
+    source = registry.sources[r.source_id]
+    return {
+        "figure": r.figure, "low": r.low, "high": r.high, "unit": "g/mL" if r.property == "density" else None,
+        "recorded": dict(r.recorded), "basis": r.basis, "temperature_c": r.temperature_c,
+        "source": {"id": source.id, "citation": source.citation, "kind": source.kind}, "locator": r.locator,
+        "status": r.status, "recalled_from_memory": r.recalled_from_memory, "preferred": r.preferred,
+        "preferred_reason": r.preferred_reason, "midpoint_of_range": r.midpoint_of_range, "note": r.note,
+    }
+
+
+def ingredient_list(registry: Registry, query: dict) -> dict:
+    chosen = []
+    for ing in registry.ingredients.values():
+        if "role" in query and query["role"] not in ing.roles:
+            continue
+        if "ionic_class" in query and query["ionic_class"] != ing.ionic_class:
+            continue
+        if "hlb_min" in query or "hlb_max" in query:
+            hlb = _figure(ing, "hlb")
+            if hlb is None or hlb < query.get("hlb_min", hlb) or hlb > query.get("hlb_max", hlb):
+                continue
+        chosen.append(summary(ing))
+    return {"count": len(chosen), "ingredients": chosen, "registry": registry_version(registry)}
+
+
+def ingredient_detail(registry: Registry, ingredient_id: str) -> dict | None:
+    ing = registry.get(ingredient_id)
+    if ing is None:
+        return None
+    detail = summary(ing) | {
+        "synonyms": list(ing.synonyms), "hlb_is_apparent": ing.hlb_is_apparent, "note": ing.note,
+        "values": {prop: [_record(registry, r) for r in ing.values.get(prop, ())] for prop in PROPERTIES},
+    }
+    return {"ingredient": detail, "registry": registry_version(registry)}
+
+
+def source_list(registry: Registry) -> dict:
+    sources = [{"id": s.id, "citation": s.citation, "kind": s.kind, "year": s.year, "note": s.note} for s in registry.sources.values()]
+    return {"count": len(sources), "sources": sources, "registry": registry_version(registry)}

@@ -1,0 +1,128 @@
+"""From a loaded request to the core's inputs: registry ids or inline values
+become figures with their provenance, and amounts become canonical floats.
+
+This is the edge where pint's units (through service.units) meet the core."""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from registry import Ingredient, Registry, ValueRecord
+from service.core.amounts import Amount
+from service.core.blend import HlbValue
+from service.errors import TYPE_INVALID_INPUT, ApiProblem, pointer
+from service.units import to_canonical
+
+# Physically plausible densities, g/mL: anything outside is a unit slip.
+DENSITY_RANGE_G_PER_ML = (0.05, 25.0)
+
+RHLB_PROPERTY = {"O/W": "required_hlb_ow", "W/O": "required_hlb_wo"}
+
+
+def invalid(path: tuple, rule: str, detail: str) -> ApiProblem:
+    return ApiProblem(422, "Invalid input", f"at {pointer(path)}: {detail}", type_=TYPE_INVALID_INPUT,
+                      errors=[{"pointer": pointer(path), "rule": rule, "detail": detail}])
+
+
+@dataclass
+class Resolved:
+    """An ingredient named in a request, with the values it brings."""
+
+    ingredient_id: str | None
+    name: str
+    ionic_class: str
+    physical_state: str | None
+    hlb_is_apparent: bool
+    record: Ingredient | None
+    inline: dict = field(default_factory=dict)
+    density_override: dict | None = None
+    path: tuple = ()
+
+    @property
+    def origin(self) -> str:
+        return "registry" if self.record is not None else "caller"
+
+    @property
+    def label(self) -> str:
+        return self.ingredient_id or f"inline '{self.name}'"
+
+
+def resolve(ref: dict, path: tuple, registry: Registry) -> Resolved:
+    """Resolve {ingredient | inline, density?} at `path` in the body."""
+    override = ref.get("density")
+    if "ingredient" in ref:
+        record = registry.get(ref["ingredient"])
+        if record is None:
+            raise invalid(path + ("ingredient",), "known_ingredient", f"no ingredient '{ref['ingredient']}' in the registry; GET /v1/ingredients lists them")
+        return Resolved(record.id, record.name, record.ionic_class, record.physical_state, record.hlb_is_apparent, record,
+                        density_override=override, path=path)
+    inline = ref["inline"]
+    return Resolved(None, inline["name"], inline.get("ionic_class", "unspecified"), inline.get("physical_state"), False, None,
+                    inline=inline, density_override=override, path=path)
+
+
+def _registry_value(item: Resolved, record: ValueRecord, registry: Registry, unit: str | None) -> dict:
+    ing = item.record
+    span = ing.span(record.property)
+    source = registry.sources[record.source_id]
+    return {
+        "ingredient": item.ingredient_id, "name": item.name, "property": record.property,
+        "figure": record.figure, "low": span[0], "high": span[1], "unit": unit, "origin": "registry",
+        "source": {"id": source.id, "citation": source.citation, "kind": source.kind},
+        "locator": record.locator, "status": record.status, "recalled_from_memory": record.recalled_from_memory,
+        "sources_disagree": len(ing.values.get(record.property, ())) > 1, "note": record.note,
+    }
+
+
+def _caller_value(item: Resolved, prop: str, figure: float, unit: str | None) -> dict:
+    return {
+        "ingredient": item.ingredient_id, "name": item.name, "property": prop, "figure": figure, "low": figure,
+        "high": figure, "unit": unit, "origin": "caller", "source": None, "locator": None, "status": "caller_supplied",
+        "recalled_from_memory": False, "sources_disagree": False, "note": "Supplied in the request; its provenance is the caller's.",
+    }
+
+
+def scalar_value(item: Resolved, prop: str, inline_key: str, registry: Registry) -> tuple[HlbValue, dict] | None:
+    """An HLB-like value (hlb, required_hlb_ow, required_hlb_wo) and its record
+    for values_used; None when none is known."""
+    if item.record is None:
+        if inline_key not in item.inline:
+            return None
+        figure = item.inline[inline_key]
+        return HlbValue(figure, figure, figure), _caller_value(item, prop, figure, None)
+    record = item.record.preferred(prop)
+    if record is None:
+        return None
+    low, high = item.record.span(prop)
+    return HlbValue(record.figure, low, high), _registry_value(item, record, registry, None)
+
+
+def density_value(item: Resolved, registry: Registry) -> tuple[float, dict] | None:
+    """Density in g/mL and its record: the request's override, then the
+    inline value, then the registry's preferred value."""
+    given = item.density_override or item.inline.get("density")
+    if given is not None:
+        where = item.path + (("density",) if item.density_override else ("inline", "density"))
+        g_per_ml = checked_density(given, where)
+        return g_per_ml, _caller_value(item, "density", g_per_ml, "g/mL")
+    if item.record is None:
+        return None
+    record = item.record.preferred("density")
+    if record is None:
+        return None
+    return record.figure, _registry_value(item, record, registry, "g/mL")
+
+
+def checked_density(given: dict, path: tuple) -> float:
+    """A density from the request in g/mL, refused when implausible."""
+    _, g_per_ml = to_canonical(given["value"], given["unit"])
+    low, high = DENSITY_RANGE_G_PER_ML
+    if not low <= g_per_ml <= high:
+        raise invalid(path + ("value",), "plausible_density",
+                      f"{g_per_ml:g} g/mL is not a plausible density for a pharmaceutical ingredient ({low:g} to {high:g} g/mL): check the unit")
+    return g_per_ml
+
+
+def amount(given: dict) -> Amount:
+    """A request amount {value, unit} as a core Amount in g, mL, parts or % w/w."""
+    kind, value = to_canonical(given["value"], given["unit"])
+    return Amount(kind, value)

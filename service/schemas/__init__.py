@@ -1,0 +1,1 @@
+"""marshmallow schemas: the JSON boundary only, one module per resource."""

@@ -1,0 +1,177 @@
+"""Response bodies. Every calculation answer has the same envelope: the
+result, the inputs as normalised (g and mL), the method and its sources, the
+values used with their provenance, warnings, cautions, and the registry
+version that produced it."""
+from __future__ import annotations
+
+from marshmallow import Schema, fields
+
+NullableNumber = lambda **kw: fields.Float(allow_none=True, **kw)  # noqa: E731
+NullableString = lambda **kw: fields.String(allow_none=True, **kw)  # noqa: E731
+
+
+class CitationSchema(Schema):
+    id = fields.String(required=True)
+    citation = fields.String(required=True)
+    kind = fields.String(required=True)
+
+
+class MethodSchema(Schema):
+    name = fields.String(required=True)
+    formula = fields.String(required=True)
+    sources = fields.List(fields.Nested(CitationSchema), required=True)
+    assumptions = fields.List(fields.String(), required=True)
+
+
+class ValueUsedSchema(Schema):
+    ingredient = NullableString(required=True, metadata={"description": "Registry id, or null for an inline ingredient."})
+    name = fields.String(required=True)
+    property = fields.String(required=True, metadata={"description": "hlb, required_hlb_ow, required_hlb_wo or density."})
+    figure = fields.Float(required=True, metadata={"description": "The figure used (the preferred value; the midpoint of a range)."})
+    low = fields.Float(required=True)
+    high = fields.Float(required=True)
+    unit = NullableString(required=True, metadata={"description": "g/mL for density; null for HLB values."})
+    origin = fields.String(required=True, metadata={"description": "registry, or caller (inline or override)."})
+    source = fields.Nested(CitationSchema, allow_none=True, required=True)
+    locator = NullableString(required=True)
+    status = fields.String(required=True, metadata={"description": "unverified, checked_against_source, measured, or caller_supplied."})
+    recalled_from_memory = fields.Boolean(required=True)
+    sources_disagree = fields.Boolean(required=True)
+    note = NullableString(required=True)
+
+
+class WarningSchema(Schema):
+    code = fields.String(required=True)
+    message = fields.String(required=True)
+    subject = NullableString(required=True)
+
+
+class RegistryVersionSchema(Schema):
+    release = fields.String(required=True)
+    digest = fields.String(required=True, metadata={"description": "sha256 of the registry's data files."})
+    version = fields.String(required=True, metadata={"description": "release+sha256.<first 12 hex digits of the digest>"})
+
+
+class RangeSchema(Schema):
+    low = fields.Float(required=True)
+    high = fields.Float(required=True)
+
+
+class AmountOutSchema(Schema):
+    value = fields.Float(required=True)
+    unit = fields.String(required=True)
+
+
+class ComponentInputSchema(Schema):
+    ingredient = NullableString(required=True)
+    name = fields.String(required=True)
+    origin = fields.String(required=True)
+    amount = fields.Nested(AmountOutSchema, required=True, metadata={"description": "As given."})
+    mass_g = NullableNumber(required=True, metadata={"description": "null when the amounts were relative."})
+    volume_ml = NullableNumber(required=True, metadata={"description": "null when no density is known or the amounts were relative."})
+    percent_w_w = fields.Float(required=True, metadata={"description": "Share of the blend (or of the oil phase), by mass."})
+
+
+def answer(name: str, result: type[Schema], inputs: type[Schema]) -> type[Schema]:
+    return Schema.from_dict(
+        {
+            "result": fields.Nested(result, required=True),
+            "inputs": fields.Nested(inputs, required=True),
+            "method": fields.Nested(MethodSchema, required=True),
+            "values_used": fields.List(fields.Nested(ValueUsedSchema), required=True),
+            "warnings": fields.List(fields.Nested(WarningSchema), required=True),
+            "cautions": fields.List(fields.String(), required=True),
+            "registry": fields.Nested(RegistryVersionSchema, required=True),
+        },
+        name=name,
+    )
+
+
+# Blend HLB
+class BlendResultSchema(Schema):
+    hlb = fields.Float(required=True, metadata={"description": "Rounded to 0.1."})
+    hlb_unrounded = fields.Float(required=True)
+    hlb_range = fields.Nested(RangeSchema, required=True, metadata={"description": "What the blend HLB spans across every source's values."})
+    total_mass_g = NullableNumber(required=True)
+
+
+class BlendInputsSchema(Schema):
+    components = fields.List(fields.Nested(ComponentInputSchema), required=True)
+    emulsion_type = NullableString(required=True)
+
+
+# Proportions for a target
+class SplitSurfactantSchema(Schema):
+    ingredient = NullableString(required=True)
+    name = fields.String(required=True)
+    role = fields.String(required=True, metadata={"description": "pair or fixed."})
+    hlb = fields.Float(required=True)
+    percent_w_w = fields.Float(required=True, metadata={"description": "Share of the blend by mass."})
+    mass_g = NullableNumber(required=True)
+    volume_ml = NullableNumber(required=True)
+
+
+class SplitResultSchema(Schema):
+    target_hlb = fields.Float(required=True)
+    hlb_reached = fields.Float(required=True, metadata={"description": "Blend HLB of the proportions, rounded to 0.1."})
+    hlb_range = fields.Nested(RangeSchema, required=True)
+    reachable_range = fields.Nested(RangeSchema, required=True)
+    surfactants = fields.List(fields.Nested(SplitSurfactantSchema), required=True)
+    total_mass_g = NullableNumber(required=True)
+    total_volume_ml = NullableNumber(required=True)
+
+
+class SplitInputsSchema(Schema):
+    target_hlb = fields.Float(required=True)
+    total = fields.Nested(AmountOutSchema, allow_none=True, required=True)
+    emulsion_type = NullableString(required=True)
+
+
+# Required HLB
+class OilInputSchema(ComponentInputSchema):
+    counts_toward_rhlb = fields.Boolean(required=True)
+    percent_of_counted = fields.Float(required=True, metadata={"description": "Weight in the required-HLB mean (0 when left out)."})
+
+
+class RequiredHlbResultSchema(Schema):
+    required_hlb = fields.Float(required=True, metadata={"description": "Rounded to 0.1."})
+    required_hlb_unrounded = fields.Float(required=True)
+    range = fields.Nested(RangeSchema, required=True, metadata={"description": "What the result spans across every source's values."})
+    emulsion_type = fields.String(required=True)
+    oil_phase_mass_g = NullableNumber(required=True)
+
+
+class RequiredHlbInputsSchema(Schema):
+    emulsion_type = fields.String(required=True)
+    oil_phase = fields.List(fields.Nested(OilInputSchema), required=True)
+
+
+# Minimum emulsifier
+class BatchEmulsifierSchema(Schema):
+    batch_mass_g = fields.Float(required=True)
+    emulsifier_mass_g = fields.Float(required=True)
+    emulsifier_mass_g_weighable = fields.Float(required=True, metadata={"description": "Rounded up to the balance increment, and to no less than the minimum weighable quantity."})
+    minimum_weighable_quantity_g = fields.Float(required=True)
+
+
+class MinimumEmulsifierResultSchema(Schema):
+    g_per_100g = fields.Float(required=True, metadata={"description": "The estimate, read as grams of emulsifier per 100 g of emulsion (% w/w)."})
+    g_per_100g_rounded_up = fields.Float(required=True, metadata={"description": "Rounded up to 0.1 g."})
+    basis = fields.String(required=True)
+    batch = fields.Nested(BatchEmulsifierSchema, allow_none=True, required=True)
+
+
+class MinimumEmulsifierInputsSchema(Schema):
+    required_hlb = fields.Float(required=True)
+    surfactant_density_g_per_ml = fields.Float(required=True)
+    dispersed_phase_density_g_per_ml = fields.Float(required=True)
+    continuous_phase_percent = fields.Float(required=True)
+    batch_mass_g = NullableNumber(required=True)
+    balance_sensitivity_g = fields.Float(required=True)
+    acceptable_error_percent = fields.Float(required=True)
+
+
+BlendAnswerSchema = answer("BlendAnswer", BlendResultSchema, BlendInputsSchema)
+SplitAnswerSchema = answer("SplitAnswer", SplitResultSchema, SplitInputsSchema)
+RequiredHlbAnswerSchema = answer("RequiredHlbAnswer", RequiredHlbResultSchema, RequiredHlbInputsSchema)
+MinimumEmulsifierAnswerSchema = answer("MinimumEmulsifierAnswer", MinimumEmulsifierResultSchema, MinimumEmulsifierInputsSchema)

@@ -1,0 +1,64 @@
+"""Request bodies of the four calculations."""
+from __future__ import annotations
+
+from marshmallow import Schema, fields, validate
+
+from service.schemas.common import (
+    EMULSION_TYPES,
+    AbsoluteAmountSchema,
+    AmountSchema,
+    ComponentSchema,
+    DensitySchema,
+    IngredientRefSchema,
+    MassSchema,
+)
+from service.schemas.fields import Boolean, Number, one_of
+
+MAX_COMPONENTS = 30
+
+
+class BlendRequestSchema(Schema):
+    components = fields.List(fields.Nested(ComponentSchema), required=True, validate=validate.Length(min=2, max=MAX_COMPONENTS),
+                             metadata={"description": "Two or more surfactants with their amounts."})
+    emulsion_type = one_of(EMULSION_TYPES, metadata={"description": "When given, the blend HLB is checked against the range usual for this type."})
+
+
+class FixedSurfactantSchema(IngredientRefSchema):
+    amount = fields.Nested(AmountSchema, required=True, metadata={
+        "description": "Its share: `% w/w` of the blend, or a mass when `total` is a mass."})
+
+
+class SplitRequestSchema(Schema):
+    target_hlb = Number(required=True, minimum=0, maximum=60)
+    pair = fields.List(fields.Nested(IngredientRefSchema), required=True, validate=validate.Length(equal=2),
+                       metadata={"description": "The two surfactants whose proportions are solved for, one of lower and one of higher HLB than the target."})
+    fixed = fields.List(fields.Nested(FixedSurfactantSchema), validate=validate.Length(max=MAX_COMPONENTS),
+                        metadata={"description": "Further surfactants at fixed shares of the blend."})
+    total = fields.Nested(AbsoluteAmountSchema, metadata={"description": "Scale the blend to this total mass or volume."})
+    emulsion_type = one_of(EMULSION_TYPES)
+
+
+class OilComponentSchema(ComponentSchema):
+    counts_toward_rhlb = Boolean(metadata={"description": "false weighs this ingredient in the oil phase but leaves it out of the required-HLB mean (e.g. an oil-soluble emulsifier counted with the emulsifier system). Default true."})
+
+
+class RequiredHlbRequestSchema(Schema):
+    emulsion_type = one_of(EMULSION_TYPES, required=True)
+    oil_phase = fields.List(fields.Nested(OilComponentSchema), required=True, validate=validate.Length(min=1, max=MAX_COMPONENTS))
+
+
+class BalanceSchema(Schema):
+    sensitivity = fields.Nested(MassSchema, metadata={"description": "Sensitivity requirement; default 6 mg (Class A prescription balance)."})
+    acceptable_error_percent = Number(exclusive_minimum=0, maximum=100, metadata={"description": "Default 5."})
+
+
+class MinimumEmulsifierRequestSchema(Schema):
+    required_hlb = Number(required=True, minimum=0, exclusive_maximum=20, metadata={"description": "Required HLB of the oil phase; the formula is singular at 20."})
+    surfactant_density = fields.Nested(DensitySchema, required=True)
+    dispersed_phase_density = fields.Nested(DensitySchema, required=True)
+    continuous_phase_percent = Number(required=True, exclusive_minimum=0, exclusive_maximum=100)
+    batch = fields.Nested(MassSchema, metadata={"description": "Batch mass: the estimate is then also given for the batch, rounded up to a weighable amount."})
+    balance = fields.Nested(BalanceSchema)
+
+
+__all__ = ["BlendRequestSchema", "DensitySchema", "MinimumEmulsifierRequestSchema", "RequiredHlbRequestSchema", "SplitRequestSchema"]

@@ -1,0 +1,105 @@
+"""Strict fields that agree with the JSON Schema the spec publishes.
+
+marshmallow's own Float accepts the string "1.5" and Boolean accepts "yes";
+JSON Schema accepts neither, so schemathesis (and any client reading the spec)
+would disagree with the server. These fields take JSON types only, and put
+their bounds into field metadata so the spec states the same rule."""
+from __future__ import annotations
+
+import math
+import re
+
+from marshmallow import ValidationError, fields, validate
+
+# The largest amount or number a request may carry: far beyond any batch, and
+# small enough that sums and products stay finite.
+MAX_MAGNITUDE = 1e9
+
+
+class Number(fields.Float):
+    """A JSON number (not a string, not a boolean), finite, within bounds."""
+
+    default_error_messages = {"invalid": "Not a valid number: a JSON number is required (strings and booleans are refused)."}
+
+    def __init__(self, *, minimum=None, maximum=MAX_MAGNITUDE, exclusive_minimum=None, exclusive_maximum=None, **kwargs):
+        self.bounds = {"minimum": minimum, "maximum": maximum, "exclusiveMinimum": exclusive_minimum, "exclusiveMaximum": exclusive_maximum}
+        metadata = dict(kwargs.pop("metadata", {}))
+        metadata.update({k: v for k, v in self.bounds.items() if v is not None})
+        super().__init__(allow_nan=False, metadata=metadata, **kwargs)
+
+    def _deserialize(self, value, attr, data, **kwargs):
+        if isinstance(value, bool) or not isinstance(value, (int, float)):
+            raise self.make_error("invalid")
+        # Bounds are compared before float(), so a 400-digit integer is refused
+        # rather than overflowing.
+        b = self.bounds
+        if b["minimum"] is not None and value < b["minimum"]:
+            raise ValidationError(f"Must be at least {b['minimum']:g}.")
+        if b["maximum"] is not None and value > b["maximum"]:
+            raise ValidationError(f"Must be at most {b['maximum']:g}.")
+        if b["exclusiveMinimum"] is not None and value <= b["exclusiveMinimum"]:
+            raise ValidationError(f"Must be greater than {b['exclusiveMinimum']:g}.")
+        if b["exclusiveMaximum"] is not None and value >= b["exclusiveMaximum"]:
+            raise ValidationError(f"Must be less than {b['exclusiveMaximum']:g}.")
+        number = float(value)
+        if not math.isfinite(number):
+            raise self.make_error("invalid")
+        return number
+
+
+class Boolean(fields.Boolean):
+    """true or false only."""
+
+    default_error_messages = {"invalid": "Not a valid boolean: true or false is required."}
+
+    def _deserialize(self, value, attr, data, **kwargs):
+        if not isinstance(value, bool):
+            raise self.make_error("invalid")
+        return value
+
+
+class FullMatch(validate.Regexp):
+    """Regexp that must match the whole string: Python's `$` also matches
+    before a final newline, which JSON Schema's pattern would not allow."""
+
+    def __call__(self, value):
+        if self.regex.fullmatch(value) is None:
+            raise ValidationError(self._format_error(value))
+        return value
+
+
+ID_PATTERN = r"^[a-z0-9]+(-[a-z0-9]+)*$"
+
+
+def ingredient_id(**kwargs) -> fields.String:
+    return fields.String(
+        validate=[validate.Length(min=1, max=80), FullMatch(ID_PATTERN, error="Must be a registry id: lower-case letters, digits and single hyphens.")],
+        metadata={"description": "Registry id of an ingredient, e.g. `polysorbate-80`.", **kwargs.pop("metadata", {})},
+        **kwargs,
+    )
+
+
+def one_of(choices, **kwargs) -> fields.String:
+    return fields.String(validate=validate.OneOf(list(choices)), **kwargs)
+
+
+def text(max_length: int = 120, **kwargs) -> fields.String:
+    return fields.String(validate=validate.Length(min=1, max=max_length), **kwargs)
+
+
+__all__ = ["Boolean", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Number", "QueryNumber", "ingredient_id", "one_of", "text"]
+
+
+class QueryNumber(Number):
+    """A number written in a query string: a plain decimal, refused otherwise
+    (Python's float() would also take 'nan', 'inf' and '1_0')."""
+
+    _DECIMAL = re.compile(r"-?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?")
+
+    def _deserialize(self, value, attr, data, **kwargs):
+        if not isinstance(value, str) or self._DECIMAL.fullmatch(value) is None:
+            raise self.make_error("invalid")
+        number = float(value)
+        if not math.isfinite(number):
+            raise self.make_error("invalid")
+        return super()._deserialize(number, attr, data, **kwargs)

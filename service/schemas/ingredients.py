@@ -1,0 +1,93 @@
+"""The registry's read-only resources: ingredients, their values with
+provenance, and the bibliography."""
+from __future__ import annotations
+
+from marshmallow import Schema, ValidationError, fields, validates_schema
+
+from service.schemas.answers import CitationSchema, RegistryVersionSchema
+from service.schemas.fields import QueryNumber, one_of
+
+ROLES = ("surfactant", "oil_phase", "aqueous_phase", "hydrocolloid")
+IONIC_CLASSES = ("nonionic", "anionic", "cationic", "amphoteric", "not_applicable")
+
+
+class IngredientQuerySchema(Schema):
+    role = one_of(ROLES)
+    ionic_class = one_of(IONIC_CLASSES)
+    hlb_min = QueryNumber(minimum=0, maximum=60, metadata={"description": "Surfactants whose preferred HLB is at least this."})
+    hlb_max = QueryNumber(minimum=0, maximum=60, metadata={"description": "Surfactants whose preferred HLB is at most this."})
+
+    @validates_schema
+    def _ordered(self, data, **kwargs):
+        if "hlb_min" in data and "hlb_max" in data and data["hlb_min"] > data["hlb_max"]:
+            raise ValidationError("hlb_min must not exceed hlb_max.", field_name="hlb_min")
+
+
+class ValueRecordSchema(Schema):
+    figure = fields.Float(required=True, metadata={"description": "The figure a calculation uses: the value, or the midpoint of a range."})
+    low = fields.Float(required=True)
+    high = fields.Float(required=True)
+    unit = fields.String(required=True, allow_none=True, metadata={"description": "g/mL for densities; null for HLB values."})
+    recorded = fields.Dict(keys=fields.String(), values=fields.Float(), required=True, metadata={"description": "The value as written in the data file (a specific gravity stays a specific gravity)."})
+    basis = fields.String(required=True, allow_none=True)
+    temperature_c = fields.Float(required=True, allow_none=True)
+    source = fields.Nested(CitationSchema, required=True)
+    locator = fields.String(required=True, allow_none=True)
+    status = fields.String(required=True)
+    recalled_from_memory = fields.Boolean(required=True)
+    preferred = fields.Boolean(required=True)
+    preferred_reason = fields.String(required=True, allow_none=True)
+    midpoint_of_range = fields.Boolean(required=True)
+    note = fields.String(required=True, allow_none=True)
+
+
+class IngredientValuesSchema(Schema):
+    hlb = fields.List(fields.Nested(ValueRecordSchema), required=True)
+    required_hlb_ow = fields.List(fields.Nested(ValueRecordSchema), required=True)
+    required_hlb_wo = fields.List(fields.Nested(ValueRecordSchema), required=True)
+    density = fields.List(fields.Nested(ValueRecordSchema), required=True)
+
+
+class IngredientSummarySchema(Schema):
+    id = fields.String(required=True)
+    name = fields.String(required=True)
+    roles = fields.List(fields.String(), required=True)
+    ionic_class = fields.String(required=True)
+    physical_state = fields.String(required=True)
+    hlb = fields.Float(required=True, allow_none=True)
+    required_hlb_ow = fields.Float(required=True, allow_none=True)
+    required_hlb_wo = fields.Float(required=True, allow_none=True)
+    density_g_per_ml = fields.Float(required=True, allow_none=True)
+    all_values_verified = fields.Boolean(required=True)
+
+
+class IngredientDetailSchema(IngredientSummarySchema):
+    synonyms = fields.List(fields.String(), required=True)
+    hlb_is_apparent = fields.Boolean(required=True)
+    note = fields.String(required=True, allow_none=True)
+    values = fields.Nested(IngredientValuesSchema, required=True)
+
+
+class IngredientListSchema(Schema):
+    count = fields.Integer(required=True)
+    ingredients = fields.List(fields.Nested(IngredientSummarySchema), required=True)
+    registry = fields.Nested(RegistryVersionSchema, required=True)
+
+
+class IngredientAnswerSchema(Schema):
+    ingredient = fields.Nested(IngredientDetailSchema, required=True)
+    registry = fields.Nested(RegistryVersionSchema, required=True)
+
+
+class SourceSchema(Schema):
+    id = fields.String(required=True)
+    citation = fields.String(required=True)
+    kind = fields.String(required=True)
+    year = fields.Integer(required=True, allow_none=True)
+    note = fields.String(required=True, allow_none=True)
+
+
+class SourceListSchema(Schema):
+    count = fields.Integer(required=True)
+    sources = fields.List(fields.Nested(SourceSchema), required=True)
+    registry = fields.Nested(RegistryVersionSchema, required=True)

@@ -1,0 +1,35 @@
+"""Health and the problem-details shape, for the spec."""
+from __future__ import annotations
+
+from marshmallow import Schema, fields
+
+from service.schemas.answers import RegistryVersionSchema
+
+
+class HealthSchema(Schema):
+    status = fields.String(required=True)
+    registry = fields.Nested(RegistryVersionSchema, required=True)
+
+
+class ProblemItemSchema(Schema):
+    pointer = fields.String(metadata={"description": "JSON pointer (URI-fragment form) to the offending field of the body."})
+    parameter = fields.String(metadata={"description": "The offending query parameter."})
+    rule = fields.String(metadata={"description": "Short name of the rule broken, where there is one."})
+    detail = fields.String(required=True)
+
+    class Meta:
+        unknown = "include"
+
+
+class ProblemSchema(Schema):
+    """RFC 9457 problem details."""
+
+    type = fields.String(required=True)
+    title = fields.String(required=True)
+    status = fields.Integer(required=True)
+    detail = fields.String(required=True)
+    errors = fields.List(fields.Nested(ProblemItemSchema))
+    error_id = fields.String()
+
+    class Meta:
+        unknown = "include"

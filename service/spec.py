@@ -1,0 +1,130 @@
+"""The OpenAPI 3.1 document, built from the marshmallow schemas.
+
+The app builds it once at start and serves it at /openapi.json; the committed
+copy in openapi/openapi.json is rewritten with `emulsion-spec --write` (or
+`python -m service.spec --write`), and a test fails when the two differ."""
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from pathlib import Path
+
+from apispec import APISpec
+from apispec.ext.marshmallow import MarshmallowPlugin
+
+from service.schemas import answers, calculations, ingredients, meta
+from service.schemas.fields import Boolean, Number, QueryNumber
+
+SPEC_PATH = Path(__file__).resolve().parent.parent / "openapi" / "openapi.json"
+VERSION = "0.1.0"
+
+DESCRIPTION = (
+    "Emulsion formulation calculations by the HLB system, on a curated ingredient registry with provenance. "
+    "Every calculation answer carries the method and its sources, the values used with their provenance, "
+    "warnings and cautions. Results are decision aids for a qualified pharmacist; local regulations and "
+    "compounding standards come first."
+)
+
+PROBLEM = {"application/problem+json": {"schema": {"$ref": "#/components/schemas/Problem"}}}
+ERRORS = {
+    "400": "The body is not strict JSON.",
+    "404": "No such resource.",
+    "405": "Method not allowed on this path; the Allow header lists those that are.",
+    "411": "A body was sent without Content-Length (chunked bodies are refused).",
+    "413": "The body is too large.",
+    "415": "The body is not application/json.",
+    "422": "The input broke a rule of the schema or of the calculation; each fault is named by pointer and rule.",
+}
+BODY_ERRORS = ("400", "405", "411", "413", "415", "422")
+GET_ERRORS = ("405",)
+
+# (path, method, operationId, summary, description, request schema, query schema, answer schema, errors, tag)
+OPERATIONS = [
+    ("/v1/blends/hlb", "post", "blendHlb", "HLB of a surfactant blend",
+     "Mass-weighted mean HLB of two or more surfactants. Amounts may be masses, volumes (converted with each "
+     "ingredient's density) or relative (parts, or % w/w of the formula).",
+     calculations.BlendRequestSchema, None, answers.BlendAnswerSchema, BODY_ERRORS, "calculations"),
+    ("/v1/blends/proportions", "post", "blendProportions", "Proportions of a surfactant pair for a target HLB",
+     "Solves the shares of two surfactants that give a target HLB, optionally beside further surfactants at fixed "
+     "shares, and optionally scaled to a total mass or volume. A target outside the reachable range is a 422 that "
+     "names the range.",
+     calculations.SplitRequestSchema, None, answers.SplitAnswerSchema, BODY_ERRORS, "calculations"),
+    ("/v1/oil-phases/required-hlb", "post", "oilPhaseRequiredHlb", "Required HLB of an oil phase",
+     "Mass-weighted mean of the oil-phase ingredients' required HLB for an O/W or W/O emulsion, with the range "
+     "the result spans where sources disagree.",
+     calculations.RequiredHlbRequestSchema, None, answers.RequiredHlbAnswerSchema, BODY_ERRORS, "calculations"),
+    ("/v1/emulsifier/minimum", "post", "emulsifierMinimum", "Minimum emulsifier estimate",
+     "An empirical estimate of the least emulsifier, in g per 100 g of emulsion, rounded up; optionally for a "
+     "batch, rounded up to a weighable amount.",
+     calculations.MinimumEmulsifierRequestSchema, None, answers.MinimumEmulsifierAnswerSchema, BODY_ERRORS, "calculations"),
+    ("/v1/ingredients", "get", "listIngredients", "List ingredients",
+     "Ingredients in the registry, filtered by role, ionic class and HLB range, with their preferred figures.",
+     None, ingredients.IngredientQuerySchema, ingredients.IngredientListSchema, ("405", "422"), "registry"),
+    ("/v1/ingredients/{ingredient_id}", "get", "getIngredient", "One ingredient with every value and its provenance",
+     "Every recorded value of the ingredient, with its source, locator, status and notes.",
+     None, None, ingredients.IngredientAnswerSchema, ("404", "405"), "registry"),
+    ("/v1/sources", "get", "listSources", "The bibliography", "Every source the registry and the methods cite.",
+     None, None, ingredients.SourceListSchema, GET_ERRORS, "registry"),
+    ("/healthz", "get", "healthz", "Liveness", "200 while the service runs, with the registry version it serves.",
+     None, None, meta.HealthSchema, GET_ERRORS, "service"),
+]
+
+
+def build_spec() -> dict:
+    """The OpenAPI document as a plain dict (deterministic for a given code)."""
+    plugin = MarshmallowPlugin()
+    spec = APISpec(
+        title="Emulsion formulation service",
+        version=VERSION,
+        openapi_version="3.1.0",
+        plugins=[plugin],
+        info={"description": DESCRIPTION, "license": {"name": "MIT", "identifier": "MIT"}},
+    )
+    plugin.map_to_openapi_type(Number, "number", None)
+    plugin.map_to_openapi_type(QueryNumber, "number", None)
+    plugin.map_to_openapi_type(Boolean, "boolean", None)
+    spec.components.schema("Problem", schema=meta.ProblemSchema)
+    for path, method, op_id, summary, description, body, query, out, errors, tag in OPERATIONS:
+        operation: dict = {
+            "operationId": op_id, "summary": summary, "description": description, "tags": [tag],
+            "responses": {"200": {"description": "OK", "content": {"application/json": {"schema": out}}}},
+        }
+        if body is not None:
+            operation["requestBody"] = {"required": True, "content": {"application/json": {"schema": body}}}
+        parameters = []
+        if query is not None:
+            parameters.append({"in": "query", "schema": query})
+        if "{ingredient_id}" in path:
+            parameters.append({"in": "path", "name": "ingredient_id", "required": True,
+                               "schema": {"type": "string", "minLength": 1, "maxLength": 200}})
+        if parameters:
+            operation["parameters"] = parameters
+        for code in errors:
+            response = {"description": ERRORS[code], "content": PROBLEM}
+            if code == "405":
+                response["headers"] = {"Allow": {"description": "The methods this path allows.", "schema": {"type": "string"}}}
+            operation["responses"][code] = response
+        spec.path(path=path, operations={method: operation})
+    return spec.to_dict()
+
+
+def spec_json(spec: dict) -> str:
+    return json.dumps(spec, indent=2, sort_keys=True, ensure_ascii=False) + "\n"
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = argparse.ArgumentParser(description="Print or write the OpenAPI document.")
+    parser.add_argument("--write", action="store_true", help=f"write it to {SPEC_PATH}")
+    args = parser.parse_args(argv)
+    text = spec_json(build_spec())
+    if args.write:
+        SPEC_PATH.write_text(text, encoding="utf-8")
+        print(f"wrote {SPEC_PATH}")
+    else:
+        sys.stdout.write(text)
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
