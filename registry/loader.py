@@ -11,6 +11,7 @@ from functools import lru_cache
 from pathlib import Path
 
 from jsonschema import Draft202012Validator
+from jsonschema.exceptions import best_match
 
 from registry.errors import RegistryError
 from registry.model import (
@@ -52,11 +53,19 @@ def _rel(path: Path, root: Path) -> str:
 
 
 def _check_schema(data: dict, schema_name: str, path: Path, root: Path) -> None:
-    errors = sorted(_validator(schema_name).iter_errors(data), key=lambda e: list(e.absolute_path))
-    if errors:
-        first = errors[0]
-        where = "/".join(str(p) for p in first.absolute_path) or "(top level)"
-        raise RegistryError(_rel(path, root), where, first.message)
+    errors = list(_validator(schema_name).iter_errors(data))
+    # A failed allOf also leaves its properties "unevaluated": report the
+    # cause, not that echo. best_match descends into oneOf to the specific fault.
+    causes = [e for e in errors if e.validator != "unevaluatedProperties"] or errors
+    error = best_match(causes)
+    if error is not None:
+        where = "/".join(str(p) for p in error.absolute_path) or "(top level)"
+        message = error.message
+        if error.validator == "oneOf" and "value" in error.instance and ("low" in error.instance or "high" in error.instance):
+            message = "give either value, or low and high, not both"
+        elif error.validator in ("oneOf", "required") and isinstance(error.instance, dict):
+            message = f"{message} (a value needs 'value', or 'low' and 'high', with 'source' and 'status')"
+        raise RegistryError(_rel(path, root), where, message)
 
 
 def _value_record(prop: str, raw: dict) -> ValueRecord:

@@ -1,7 +1,10 @@
 """The envelope every calculation answer shares."""
 from __future__ import annotations
 
+import math
+
 from registry import Registry
+from service.core.errors import CalculationError
 from service.methods import CAUTIONS, Method
 from service.notices import provenance_warnings
 
@@ -20,7 +23,28 @@ def method_block(method: Method, registry: Registry) -> dict:
     }
 
 
+def _first_non_finite(value, path=()):
+    if isinstance(value, float) and not math.isfinite(value):
+        return path
+    if isinstance(value, dict):
+        items = value.items()
+    elif isinstance(value, (list, tuple)):
+        items = enumerate(value)
+    else:
+        return None
+    for key, item in items:
+        found = _first_non_finite(item, path + (key,))
+        if found is not None:
+            return found
+    return None
+
+
 def envelope(result: dict, inputs: dict, method: Method, values_used: list[dict], warnings: list[dict], registry: Registry) -> dict:
+    """The whole answer. A result that overflowed (extreme but valid inputs)
+    is refused rather than written out as a wrong number."""
+    bad = _first_non_finite(result)
+    if bad is not None:
+        raise CalculationError((), "finite_result", f"the inputs give a result out of range (result/{'/'.join(map(str, bad))}); check the amounts and units")
     return {
         "result": result,
         "inputs": inputs,
@@ -35,3 +59,9 @@ def envelope(result: dict, inputs: dict, method: Method, values_used: list[dict]
 def hlb_display(value: float) -> float:
     """HLB is shown to 0.1: the method is no more precise than that."""
     return round(value, 1)
+
+
+def unrounded(value: float) -> float:
+    """The figure before display rounding, cut to 6 decimals so that float
+    noise (11.600000000000001) does not pass for precision."""
+    return round(value, 6)

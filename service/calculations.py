@@ -7,7 +7,7 @@ from typing import Sequence
 
 from registry import Registry
 from service import methods
-from service.answers import envelope, hlb_display
+from service.answers import envelope, hlb_display, unrounded
 from service.core import findings as core_findings
 from service.core.amounts import ABSOLUTE, Amount
 from service.core.blend import blend_hlb
@@ -83,7 +83,7 @@ def blend(data: dict, registry: Registry) -> dict:
         core_findings.usual_range_finding(result.hlb.figure, emulsion_type, _ranges(registry)),
     ]) + _common_warnings(items, [c["amount"] for c in components])
     return envelope(
-        result={"hlb": hlb_display(result.hlb.figure), "hlb_unrounded": result.hlb.figure,
+        result={"hlb": hlb_display(result.hlb.figure), "hlb_unrounded": unrounded(result.hlb.figure),
                 "hlb_range": {"low": hlb_display(result.hlb.low), "high": hlb_display(result.hlb.high)},
                 "total_mass_g": result.total_mass_g},
         inputs={"components": _component_inputs(items, [c["amount"] for c in components], result.weighed, result.hlb.fractions),
@@ -177,7 +177,7 @@ def oil_phase_rhlb(data: dict, registry: Registry) -> dict:
         row["counts_toward_rhlb"] = count
         row["percent_of_counted"] = counted * 100.0
     return envelope(
-        result={"required_hlb": hlb_display(result.required_hlb.figure), "required_hlb_unrounded": result.required_hlb.figure,
+        result={"required_hlb": hlb_display(result.required_hlb.figure), "required_hlb_unrounded": unrounded(result.required_hlb.figure),
                 "range": {"low": hlb_display(result.required_hlb.low), "high": hlb_display(result.required_hlb.high)},
                 "emulsion_type": emulsion_type, "oil_phase_mass_g": result.total_mass_g},
         inputs={"emulsion_type": emulsion_type, "oil_phase": inputs},
@@ -192,13 +192,15 @@ def emulsifier_minimum(data: dict, registry: Registry) -> dict:
     rhlb, q = data["required_hlb"], data["continuous_phase_percent"]
     estimate = minimum_emulsifier(rho_s, rho_d, rhlb, q)
     balance = data.get("balance", {})
-    sensitivity_g = to_canonical(**balance["sensitivity"])[1] if "sensitivity" in balance else DEFAULT_SENSITIVITY_G
+    sensitivity_g = to_canonical(balance["sensitivity"]["value"], balance["sensitivity"]["unit"])[1] if "sensitivity" in balance else DEFAULT_SENSITIVITY_G
     error_percent = balance.get("acceptable_error_percent", DEFAULT_ERROR_PERCENT)
     mwq_g = core_findings.minimum_weighable_quantity_g(sensitivity_g, error_percent)
     batch = None
-    warnings = []
+    warnings = [{"code": "unpublished_method", "subject": "method",
+                 "message": "this estimate comes from calculation practice and no primary publication for it could be found; "
+                            "treat it as a rough lower bound and confirm the emulsifier level by bench trial"}]
     if "batch" in data:
-        batch_g = to_canonical(**data["batch"])[1]
+        batch_g = to_canonical(data["batch"]["value"], data["batch"]["unit"])[1]
         need_g = estimate.g_per_100g / 100.0 * batch_g
         weighable_g = max(core_findings.ceil_to(need_g, BATCH_INCREMENT_G), mwq_g)
         if need_g < mwq_g:

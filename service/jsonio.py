@@ -1,8 +1,11 @@
 """Strict JSON at the boundary.
 
 Stock Flask lets through NaN and Infinity, turns 1e400 into inf, lets a
-duplicate key silently win, and writes NaN back out. Here each of these is
-refused on input, and output refuses non-finite numbers."""
+duplicate key silently win, and writes NaN back out. Here a duplicate key or
+too deep a nesting refuses the whole body; NaN, Infinity and numbers too large
+for a double are parsed into a NonFiniteNumber marker, which no schema field
+accepts, so the answer names the field that held it. Output refuses
+non-finite numbers."""
 from __future__ import annotations
 
 import json
@@ -15,15 +18,21 @@ class StrictJSONError(ValueError):
     """The body is not JSON this service accepts; the message says why."""
 
 
-def _refuse_constant(name: str):
-    raise StrictJSONError(f"{name} is not a JSON number")
+class NonFiniteNumber:
+    """Stands where the body held NaN, Infinity or an overflowing number."""
+
+    __slots__ = ("text",)
+
+    def __init__(self, text: str):
+        self.text = text[:40]
+
+    def __repr__(self) -> str:
+        return f"NonFiniteNumber({self.text!r})"
 
 
-def _finite_float(text: str) -> float:
+def _finite_float(text: str):
     value = float(text)
-    if not math.isfinite(value):
-        raise StrictJSONError(f"number {text[:40]} is out of range for a double")
-    return value
+    return value if math.isfinite(value) else NonFiniteNumber(text)
 
 
 def _no_duplicates(pairs: list) -> dict:
@@ -38,7 +47,7 @@ def _no_duplicates(pairs: list) -> dict:
 def strict_loads(text: str | bytes):
     """Parse JSON strictly. Raises StrictJSONError with a reason."""
     try:
-        return json.loads(text, parse_constant=_refuse_constant, parse_float=_finite_float, object_pairs_hook=_no_duplicates)
+        return json.loads(text, parse_constant=NonFiniteNumber, parse_float=_finite_float, object_pairs_hook=_no_duplicates)
     except StrictJSONError:
         raise
     except RecursionError:

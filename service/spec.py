@@ -13,6 +13,7 @@ from pathlib import Path
 from apispec import APISpec
 from apispec.ext.marshmallow import MarshmallowPlugin
 
+from service.examples import EXAMPLES
 from service.schemas import answers, calculations, ingredients, meta
 from service.schemas.fields import Boolean, Number, QueryNumber
 
@@ -91,7 +92,10 @@ def build_spec() -> dict:
             "responses": {"200": {"description": "OK", "content": {"application/json": {"schema": out}}}},
         }
         if body is not None:
-            operation["requestBody"] = {"required": True, "content": {"application/json": {"schema": body}}}
+            content = {"schema": body}
+            if op_id in EXAMPLES:
+                content["examples"] = EXAMPLES[op_id]
+            operation["requestBody"] = {"required": True, "content": {"application/json": content}}
         parameters = []
         if query is not None:
             parameters.append({"in": "query", "schema": query})

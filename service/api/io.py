@@ -20,7 +20,9 @@ def load_body(schema: Schema) -> dict:
     if not _JSON_TYPE.match(request.mimetype or ""):
         raise ApiProblem(415, "Unsupported Media Type", "the request body must be application/json")
     if request.content_length is None:
-        raise ApiProblem(411, "Length Required", "send the body with a Content-Length; chunked request bodies are not accepted")
+        if "chunked" in request.headers.get("Transfer-Encoding", "").lower():
+            raise ApiProblem(411, "Length Required", "send the body with a Content-Length; chunked request bodies are not accepted")
+        raise ApiProblem(400, "Malformed body", "the request body is empty; a JSON object is required", type_=TYPE_MALFORMED)
     limit = current_app.config["MAX_BODY_BYTES"]
     if request.content_length > limit:
         raise ApiProblem(413, "Content Too Large", f"the request body is {request.content_length} bytes; at most {limit} are accepted")

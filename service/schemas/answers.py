@@ -90,7 +90,7 @@ def answer(name: str, result: type[Schema], inputs: type[Schema]) -> type[Schema
 # Blend HLB
 class BlendResultSchema(Schema):
     hlb = fields.Float(required=True, metadata={"description": "Rounded to 0.1."})
-    hlb_unrounded = fields.Float(required=True)
+    hlb_unrounded = fields.Float(required=True, metadata={"description": "Before display rounding, to 6 decimals."})
     hlb_range = fields.Nested(RangeSchema, required=True, metadata={"description": "What the blend HLB spans across every source's values."})
     total_mass_g = NullableNumber(required=True)
 
@@ -135,7 +135,7 @@ class OilInputSchema(ComponentInputSchema):
 
 class RequiredHlbResultSchema(Schema):
     required_hlb = fields.Float(required=True, metadata={"description": "Rounded to 0.1."})
-    required_hlb_unrounded = fields.Float(required=True)
+    required_hlb_unrounded = fields.Float(required=True, metadata={"description": "Before display rounding, to 6 decimals."})
     range = fields.Nested(RangeSchema, required=True, metadata={"description": "What the result spans across every source's values."})
     emulsion_type = fields.String(required=True)
     oil_phase_mass_g = NullableNumber(required=True)

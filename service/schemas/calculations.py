@@ -49,7 +49,7 @@ class RequiredHlbRequestSchema(Schema):
 
 class BalanceSchema(Schema):
     sensitivity = fields.Nested(MassSchema, metadata={"description": "Sensitivity requirement; default 6 mg (Class A prescription balance)."})
-    acceptable_error_percent = Number(exclusive_minimum=0, maximum=100, metadata={"description": "Default 5."})
+    acceptable_error_percent = Number(minimum=0.1, maximum=50, metadata={"description": "Default 5."})
 
 
 class MinimumEmulsifierRequestSchema(Schema):

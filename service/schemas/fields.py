@@ -11,6 +11,8 @@ import re
 
 from marshmallow import ValidationError, fields, validate
 
+from service.jsonio import NonFiniteNumber
+
 # The largest amount or number a request may carry: far beyond any batch, and
 # small enough that sums and products stay finite.
 MAX_MAGNITUDE = 1e9
@@ -28,6 +30,8 @@ class Number(fields.Float):
         super().__init__(allow_nan=False, metadata=metadata, **kwargs)
 
     def _deserialize(self, value, attr, data, **kwargs):
+        if isinstance(value, NonFiniteNumber):
+            raise ValidationError(f"{value.text} is not accepted: a finite number is required.")
         if isinstance(value, bool) or not isinstance(value, (int, float)):
             raise self.make_error("invalid")
         # Bounds are compared before float(), so a 400-digit integer is refused

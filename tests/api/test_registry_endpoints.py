@@ -1,0 +1,69 @@
+"""The registry, read-only over HTTP."""
+import pytest
+
+from tests.api.helpers import problem_pointers
+
+
+def test_list_all(client, registry):
+    body = client.get("/v1/ingredients").get_json()
+    assert body["count"] == len(registry.ingredients) == len(body["ingredients"])
+    assert body["registry"]["version"] == registry.version
+
+
+def test_filter_by_role_and_hlb(client):
+    body = client.get("/v1/ingredients?role=surfactant&hlb_min=4&hlb_max=5").get_json()
+    ids = {i["id"] for i in body["ingredients"]}
+    assert {"sorbitan-monooleate", "sorbitan-monostearate"} <= ids
+    assert all(4 <= i["hlb"] <= 5 for i in body["ingredients"])
+    assert "polysorbate-80" not in ids
+
+
+def test_filter_by_ionic_class(client):
+    body = client.get("/v1/ingredients?ionic_class=anionic").get_json()
+    assert "sodium-lauryl-sulfate" in {i["id"] for i in body["ingredients"]}
+    assert all(i["ionic_class"] == "anionic" for i in body["ingredients"])
+
+
+@pytest.mark.parametrize(("query", "param"), [
+    ("hlb_min=abc", "hlb_min"), ("hlb_min=nan", "hlb_min"), ("hlb_min=inf", "hlb_min"), ("hlb_min=1_0", "hlb_min"),
+    ("hlb_min=-1", "hlb_min"), ("hlb_min=9&hlb_max=2", "hlb_min"), ("role=emulsifier", "role"),
+    ("colour=red", "colour"), ("role=surfactant&role=oil_phase", "role"),
+])
+def test_bad_queries(client, query, param):
+    r = client.get(f"/v1/ingredients?{query}")
+    assert r.status_code == 422
+    assert problem_pointers(r) == [param]
+
+
+def test_one_ingredient_with_provenance(client):
+    body = client.get("/v1/ingredients/castor-oil").get_json()["ingredient"]
+    rhlb = body["values"]["required_hlb_ow"]
+    assert len(rhlb) == 2 and sum(v["preferred"] for v in rhlb) == 1
+    assert all(v["source"]["citation"] for v in rhlb)
+    density = body["values"]["density"][0]
+    assert density["basis"] == "specific_gravity_25_25" and density["recorded"] == {"low": 0.957, "high": 0.961}
+    assert density["unit"] == "g/mL"
+
+
+def test_unknown_ingredient_is_404(client):
+    r = client.get("/v1/ingredients/no-such-thing")
+    assert r.status_code == 404
+    problem_pointers(r)
+
+
+def test_bibliography(client, registry):
+    body = client.get("/v1/sources").get_json()
+    assert body["count"] == len(registry.sources)
+    assert "griffin-1949" in {s["id"] for s in body["sources"]}
+
+
+def test_health(client, registry):
+    body = client.get("/healthz").get_json()
+    assert body == {"status": "ok", "registry": {"release": registry.release, "digest": registry.digest, "version": registry.version}}
+
+
+def test_docs_page(client):
+    r = client.get("/docs")
+    assert r.status_code == 200 and r.mimetype == "text/html"
+    html = r.get_data(as_text=True)
+    assert "/v1/blends/hlb" in html and 'id="problem-invalid-input"' in html
