@@ -46,10 +46,10 @@ def envelope(result: dict, inputs: dict, method: Method, values_used: list[dict]
     if bad is not None:
         raise CalculationError((), "finite_result", f"the inputs give a result out of range (result/{'/'.join(map(str, bad))}); check the amounts and units")
     return {
-        "result": result,
-        "inputs": inputs,
+        "result": tidy(result),
+        "inputs": tidy(inputs),
         "method": method_block(method, registry),
-        "values_used": values_used,
+        "values_used": tidy(values_used),
         "warnings": warnings + provenance_warnings(values_used),
         "cautions": list(CAUTIONS),
         "registry": registry_version(registry),
@@ -65,3 +65,15 @@ def unrounded(value: float) -> float:
     """The figure before display rounding, cut to 6 decimals so that float
     noise (11.600000000000001) does not pass for precision."""
     return round(value, 6)
+
+
+def tidy(value):
+    """Floats cut to 10 significant digits: float noise such as
+    3.2352941176470584 is not precision, and no balance reads past it."""
+    if isinstance(value, float):
+        return float(f"{value:.10g}")
+    if isinstance(value, dict):
+        return {k: tidy(v) for k, v in value.items()}
+    if isinstance(value, list):
+        return [tidy(v) for v in value]
+    return value

@@ -61,7 +61,7 @@ def problem_response(status: int, title: str, detail: str, *, type_: str = "abou
     if errors is not None:
         body["errors"] = errors
     body.update(extra)
-    response = Response(json.dumps(body), status=status, mimetype=PROBLEM_TYPE)
+    response = Response(json.dumps(body, indent=2) + "\n", status=status, mimetype=PROBLEM_TYPE)
     for name, value in (headers or {}).items():
         if name.lower() != "content-type":
             response.headers[name] = value
