@@ -50,7 +50,7 @@ def _required(item: Resolved, prop: str, inline_key: str, registry: Registry, va
     found = scalar_value(item, prop, inline_key, registry)
     if found is None:
         where = item.path + (("inline", inline_key) if item.record is None else ("ingredient",))
-        raise invalid(where, f"{prop}_known", f"no {what} is known for {item.label}: give it inline, or choose another ingredient")
+        raise invalid(where, f"{prop}_known", f"no {what} is known for {item.label}: describe the ingredient inline with a value from your own source, or choose another ingredient")
     values_used.append(found[1])
     return found[0]
 

@@ -98,6 +98,7 @@ class QueryNumber(Number):
     """A number written in a query string: a plain decimal, refused otherwise
     (Python's float() would also take 'nan', 'inf' and '1_0')."""
 
+    default_error_messages = {"invalid": "Not a valid number: a plain decimal number is required."}
     _DECIMAL = re.compile(r"-?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?")
 
     def _deserialize(self, value, attr, data, **kwargs):
