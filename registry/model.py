@@ -1,5 +1,5 @@
 """Frozen records of the registry. Numbers are in canonical units: HLB and
-required HLB are dimensionless, densities are g/mL."""
+required HLB are dimensionless, densities are g/mL, molar masses g/mol."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field
@@ -10,7 +10,10 @@ from typing import Mapping
 # density. The same figure stands in purified-water.toml with its source.
 WATER_DENSITY_25C_G_PER_ML = 0.9970476
 
-PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo", "density")
+PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo", "density", "molar_mass")
+UNITS = {"density": "g/mL", "molar_mass": "g/mol"}
+STATUSES = ("unverified", "checked_against_source", "measured")
+KINDS = ("primary_literature", "handbook", "textbook", "pharmacopeia", "standard", "calculated", "in_house_measurement")
 
 
 @dataclass(frozen=True)
@@ -20,29 +23,41 @@ class Source:
     kind: str
     year: int | None = None
     note: str | None = None
+    local: bool = False
 
 
 @dataclass(frozen=True)
 class ValueRecord:
-    """One published (or measured) value of one property, with its provenance.
+    """One published, calculated or measured value of one property, with its
+    provenance.
 
     `low` and `high` are equal for a single figure; for a range they are its
-    ends and `figure` is the midpoint. Density values are in g/mL whatever
-    basis they were recorded on; `recorded` keeps them as written."""
+    ends and `figure` is the midpoint. Densities are in g/mL whatever basis
+    and unit they were recorded in; `recorded` keeps them as written."""
 
     property: str
     low: float
     high: float
     source_id: str
+    kind: str
     status: str
     locator: str | None = None
+    method: str | None = None
+    conditions: str | None = None
+    reviewed_by: str | None = None
+    reviewed_on: str | None = None
     recalled_from_memory: bool = False
     preferred: bool = False
     preferred_reason: str | None = None
     midpoint_of_range: bool = False
     note: str | None = None
     basis: str | None = None
+    unit: str | None = None
     temperature_c: float | None = None
+    retired: bool = False
+    retired_on: str | None = None
+    retired_reason: str | None = None
+    local: bool = False
     recorded: Mapping[str, float] = field(default_factory=dict)
 
     @property
@@ -66,24 +81,37 @@ class Ingredient:
     ionic_class: str
     physical_state: str
     synonyms: tuple[str, ...] = ()
+    molecular_formula: str | None = None
     hlb_is_apparent: bool = False
     note: str | None = None
+    retired: bool = False
+    retired_on: str | None = None
+    retired_reason: str | None = None
+    local: bool = False
+    # Every value, retired ones included: the record is never rewritten away.
     values: Mapping[str, tuple[ValueRecord, ...]] = field(default_factory=dict)
 
+    def active(self, prop: str) -> tuple[ValueRecord, ...]:
+        return tuple(r for r in self.values.get(prop, ()) if not r.retired)
+
     def preferred(self, prop: str) -> ValueRecord | None:
-        """The preferred value of a property, or None when none is recorded."""
-        records = self.values.get(prop, ())
+        """The preferred active value of a property, or None."""
+        records = self.active(prop)
         for record in records:
             if record.preferred:
                 return record
         return records[0] if records else None
 
     def span(self, prop: str) -> tuple[float, float] | None:
-        """The lowest and highest figure any source gives, or None."""
-        records = self.values.get(prop, ())
+        """The lowest and highest figure the active values give, or None."""
+        records = self.active(prop)
         if not records:
             return None
         return min(r.low for r in records), max(r.high for r in records)
+
+    @property
+    def uses_local_values(self) -> bool:
+        return self.local or any(r.local for records in self.values.values() for r in records)
 
 
 @dataclass(frozen=True)
@@ -104,17 +132,40 @@ class HlbRangeTable:
 
 
 @dataclass(frozen=True)
+class DaviesGroup:
+    """A Davies group number: its preferred value and any others recorded."""
+
+    id: str
+    formula: str
+    kind: str  # hydrophilic | lipophilic
+    values: tuple[ValueRecord, ...]
+
+    @property
+    def number(self) -> float:
+        for record in self.values:
+            if record.preferred and not record.retired:
+                return record.figure
+        return self.values[0].figure
+
+
+@dataclass(frozen=True)
 class Registry:
     release: str
     digest: str
     ingredients: Mapping[str, Ingredient]
     sources: Mapping[str, Source]
     hlb_ranges: HlbRangeTable
+    davies_groups: Mapping[str, DaviesGroup] = field(default_factory=dict)
+    overlay_digest: str | None = None
+    overlay_root: str | None = None
 
     @property
     def version(self) -> str:
-        """Release and content digest in one token, e.g. '0.1.0+sha256.1a2b3c4d5e6f'."""
-        return f"{self.release}+sha256.{self.digest[:12]}"
+        """Release and content digest in one token, e.g.
+        '0.2.0+sha256.1a2b3c4d5e6f', with '.site.<digest>' when a site
+        overlay is in use."""
+        base = f"{self.release}+sha256.{self.digest[:12]}"
+        return base + (f".site.{self.overlay_digest[:12]}" if self.overlay_digest else "")
 
     def get(self, ingredient_id: str) -> Ingredient | None:
         return self.ingredients.get(ingredient_id)

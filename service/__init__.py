@@ -12,7 +12,8 @@ from service.config import Settings
 
 def create_app(config: Mapping | None = None) -> Flask:
     """Build the app. `config` overrides settings (keys of Settings, e.g.
-    registry_root); without it settings come from the environment. A bad
+    registry_root, site_overlay, strict); without it they come from the
+    environment. A bad
     registry raises RegistryError here, so the service never starts on
     partial data."""
     from service.api import calculations, ingredients, meta
@@ -23,11 +24,12 @@ def create_app(config: Mapping | None = None) -> Flask:
     settings = Settings.from_env()
     if config:
         settings = Settings(**{**settings.__dict__, **dict(config)})
-    registry = load_registry(settings.registry_root)
+    registry = load_registry(settings.registry_root, settings.site_overlay)
 
     app = Flask(__name__)
     app.json = StrictJSONProvider(app)
     app.config["MAX_BODY_BYTES"] = settings.max_body_bytes
+    app.config["STRICT"] = settings.strict
     # werkzeug's own limit backs ours up for bodies read elsewhere.
     app.config["MAX_CONTENT_LENGTH"] = settings.max_body_bytes
     app.extensions["registry"] = registry

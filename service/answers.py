@@ -10,7 +10,8 @@ from service.notices import provenance_warnings
 
 
 def registry_version(registry: Registry) -> dict:
-    return {"release": registry.release, "digest": registry.digest, "version": registry.version}
+    return {"release": registry.release, "digest": registry.digest, "site_overlay_digest": registry.overlay_digest,
+            "version": registry.version}
 
 
 def method_block(method: Method, registry: Registry) -> dict:
@@ -39,7 +40,8 @@ def _first_non_finite(value, path=()):
     return None
 
 
-def envelope(result: dict, inputs: dict, method: Method, values_used: list[dict], warnings: list[dict], registry: Registry) -> dict:
+def envelope(result: dict, inputs: dict, method: Method, values_used: list[dict], warnings: list[dict], registry: Registry,
+             strict: bool = False) -> dict:
     """The whole answer. A result that overflowed (extreme but valid inputs)
     is refused rather than written out as a wrong number."""
     bad = _first_non_finite(result)
@@ -52,6 +54,7 @@ def envelope(result: dict, inputs: dict, method: Method, values_used: list[dict]
         "values_used": tidy(values_used),
         "warnings": warnings + provenance_warnings(values_used),
         "cautions": list(CAUTIONS),
+        "strict": strict,
         "registry": registry_version(registry),
     }
 

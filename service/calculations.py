@@ -16,6 +16,7 @@ from service.core.required_hlb import required_hlb
 from service.core.split import split_for_target, total_mass_from_volume
 from service.notices import apparent_hlb_warning, finding_warnings, solid_by_volume_warning
 from service.resolve import RHLB_PROPERTY, Resolved, amount, checked_density, density_value, invalid, resolve, scalar_value
+from service.errors import TYPE_CALCULATION, ApiProblem
 from service.units import to_canonical
 
 # Class A prescription balance (USP <1176>): sensitivity requirement 6 mg, and
@@ -24,6 +25,19 @@ DEFAULT_SENSITIVITY_G = 0.006
 DEFAULT_ERROR_PERCENT = 5.0
 # Balance increment a batch amount is rounded up to (common practice, no source).
 BATCH_INCREMENT_G = 0.01
+
+
+def _enforce_strict(values_used: list[dict], strict: bool) -> None:
+    """Strict mode: refuse registry values not yet checked against their
+    source, naming each. Caller-supplied values are the caller's to vouch for."""
+    if not strict:
+        return
+    refused = [v for v in values_used if v["origin"] == "registry" and v["status"] == "unverified"]
+    if refused:
+        errors = [{"pointer": v["pointer"], "rule": "verified_values_only",
+                   "detail": f"{v['ingredient']} {v['property']} ({v['figure']:g}, source {v['source']['id']}) is unverified"} for v in refused]
+        raise ApiProblem(422, "Unverified values refused", f"strict mode: {len(refused)} value(s) used here are not yet checked against their source",
+                         type_=TYPE_CALCULATION, errors=errors)
 
 
 def _ranges(registry: Registry) -> dict[str, tuple[float, float]]:
@@ -69,13 +83,14 @@ def _common_warnings(items: Sequence[Resolved], given: Sequence[dict]) -> list[d
     return solid_by_volume_warning(solids) + apparent_hlb_warning(it.label for it in items if it.hlb_is_apparent)
 
 
-def blend(data: dict, registry: Registry) -> dict:
+def blend(data: dict, registry: Registry, strict: bool = False) -> dict:
     components = data["components"]
     items = [resolve(c, ("components", i), registry) for i, c in enumerate(components)]
     values_used: list[dict] = []
     hlbs = [_required(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
     amounts = [amount(c["amount"]) for c in components]
     densities = _densities(items, amounts, registry, values_used)
+    _enforce_strict(values_used, strict)
     result = blend_hlb(hlbs, amounts, densities)
     emulsion_type = data.get("emulsion_type")
     warnings = finding_warnings([
@@ -88,7 +103,7 @@ def blend(data: dict, registry: Registry) -> dict:
                 "total_mass_g": result.total_mass_g},
         inputs={"components": _component_inputs(items, [c["amount"] for c in components], result.weighed, result.hlb.fractions),
                 "emulsion_type": emulsion_type},
-        method=methods.BLEND_HLB, values_used=values_used, warnings=warnings, registry=registry,
+        method=methods.BLEND_HLB, values_used=values_used, warnings=warnings, registry=registry, strict=strict,
     )
 
 
@@ -109,7 +124,7 @@ def _fixed_fractions(fixed: list[dict], total: dict | None) -> list[float]:
     return out
 
 
-def split(data: dict, registry: Registry) -> dict:
+def split(data: dict, registry: Registry, strict: bool = False) -> dict:
     values_used: list[dict] = []
     pair = [resolve(r, ("pair", i), registry) for i, r in enumerate(data["pair"])]
     fixed = data.get("fixed", [])
@@ -135,6 +150,7 @@ def split(data: dict, registry: Registry) -> dict:
                 raise invalid(it.path, "density_needed_for_volume", f"a total given as a volume needs the density of every surfactant; none is known for {it.label}: give it with 'density'")
             total_volume = value
             total_mass = total_mass_from_volume(value, solved.fractions, densities)
+    _enforce_strict(values_used, strict)
     surfactants = []
     for i, (it, fraction, h, d) in enumerate(zip(items, solved.fractions, hlbs, densities)):
         mass = fraction * total_mass if total_mass is not None else None
@@ -154,11 +170,11 @@ def split(data: dict, registry: Registry) -> dict:
                 "reachable_range": {"low": solved.reachable_low, "high": solved.reachable_high},
                 "surfactants": surfactants, "total_mass_g": total_mass, "total_volume_ml": total_volume},
         inputs={"target_hlb": target, "total": dict(total) if total else None, "emulsion_type": emulsion_type},
-        method=methods.SPLIT, values_used=values_used, warnings=warnings, registry=registry,
+        method=methods.SPLIT, values_used=values_used, warnings=warnings, registry=registry, strict=strict,
     )
 
 
-def oil_phase_rhlb(data: dict, registry: Registry) -> dict:
+def oil_phase_rhlb(data: dict, registry: Registry, strict: bool = False) -> dict:
     emulsion_type = data["emulsion_type"]
     prop = RHLB_PROPERTY[emulsion_type]
     oil = data["oil_phase"]
@@ -171,6 +187,7 @@ def oil_phase_rhlb(data: dict, registry: Registry) -> dict:
     ]
     amounts = [amount(c["amount"]) for c in oil]
     densities = _densities(items, amounts, registry, values_used)
+    _enforce_strict(values_used, strict)
     result = required_hlb(rhlbs, amounts, densities, counts)
     inputs = _component_inputs(items, [c["amount"] for c in oil], result.weighed, result.phase_fractions)
     for row, count, counted in zip(inputs, counts, result.counted_fractions):
@@ -182,7 +199,7 @@ def oil_phase_rhlb(data: dict, registry: Registry) -> dict:
                 "emulsion_type": emulsion_type, "oil_phase_mass_g": result.total_mass_g},
         inputs={"emulsion_type": emulsion_type, "oil_phase": inputs},
         method=methods.REQUIRED_HLB, values_used=values_used, warnings=_common_warnings(items, [c["amount"] for c in oil]),
-        registry=registry,
+        registry=registry, strict=strict,
     )
 
 

@@ -14,6 +14,8 @@ PROVENANCE_RULES = (
      "value(s) recalled from memory of a standard text, not read from it, were used"),
     ("caller_supplied_value", lambda v: v["origin"] == "caller",
      "value(s) supplied in the request, with no source in the registry, were used"),
+    ("local_value", lambda v: v["local"],
+     "value(s) from this pharmacy's site overlay, not from the shipped registry, were used"),
     ("sources_disagree", lambda v: v["sources_disagree"],
      "sources disagree on value(s) used; the preferred figure was used and the range is given"),
 )

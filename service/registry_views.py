@@ -2,7 +2,7 @@
 from __future__ import annotations
 
 from registry import Ingredient, Registry, ValueRecord
-from registry.model import PROPERTIES
+from registry.model import PROPERTIES, UNITS
 from service.answers import registry_version
 
 
@@ -16,25 +16,30 @@ def summary(ing: Ingredient) -> dict:
         "id": ing.id, "name": ing.name, "roles": list(ing.roles), "ionic_class": ing.ionic_class,
         "physical_state": ing.physical_state, "hlb": _figure(ing, "hlb"),
         "required_hlb_ow": _figure(ing, "required_hlb_ow"), "required_hlb_wo": _figure(ing, "required_hlb_wo"),
-        "density_g_per_ml": _figure(ing, "density"),
-        "all_values_verified": all(r.is_verified for records in ing.values.values() for r in records),
+        "density_g_per_ml": _figure(ing, "density"), "molar_mass_g_per_mol": _figure(ing, "molar_mass"),
+        "all_values_verified": all(r.is_verified for prop in ing.values for r in ing.active(prop)),
+        "local": ing.uses_local_values,
     }
 
 
 def _record(registry: Registry, r: ValueRecord) -> dict:
     source = registry.sources[r.source_id]
     return {
-        "figure": r.figure, "low": r.low, "high": r.high, "unit": "g/mL" if r.property == "density" else None,
-        "recorded": dict(r.recorded), "basis": r.basis, "temperature_c": r.temperature_c,
-        "source": {"id": source.id, "citation": source.citation, "kind": source.kind}, "locator": r.locator,
-        "status": r.status, "recalled_from_memory": r.recalled_from_memory, "preferred": r.preferred,
-        "preferred_reason": r.preferred_reason, "midpoint_of_range": r.midpoint_of_range, "note": r.note,
+        "figure": r.figure, "low": r.low, "high": r.high, "unit": UNITS.get(r.property),
+        "recorded": dict(r.recorded), "recorded_unit": r.unit, "basis": r.basis, "temperature_c": r.temperature_c,
+        "conditions": r.conditions, "source": {"id": source.id, "citation": source.citation, "kind": source.kind},
+        "locator": r.locator, "kind": r.kind, "method": r.method, "status": r.status,
+        "reviewed_by": r.reviewed_by, "reviewed_on": r.reviewed_on, "recalled_from_memory": r.recalled_from_memory,
+        "preferred": r.preferred, "preferred_reason": r.preferred_reason, "midpoint_of_range": r.midpoint_of_range,
+        "note": r.note, "retired": r.retired, "retired_on": r.retired_on, "retired_reason": r.retired_reason, "local": r.local,
     }
 
 
 def ingredient_list(registry: Registry, query: dict) -> dict:
     chosen = []
     for ing in registry.ingredients.values():
+        if ing.retired:
+            continue
         if "role" in query and query["role"] not in ing.roles:
             continue
         if "ionic_class" in query and query["ionic_class"] != ing.ionic_class:
@@ -52,12 +57,14 @@ def ingredient_detail(registry: Registry, ingredient_id: str) -> dict | None:
     if ing is None:
         return None
     detail = summary(ing) | {
-        "synonyms": list(ing.synonyms), "hlb_is_apparent": ing.hlb_is_apparent, "note": ing.note,
+        "synonyms": list(ing.synonyms), "molecular_formula": ing.molecular_formula, "hlb_is_apparent": ing.hlb_is_apparent,
+        "note": ing.note, "retired": ing.retired, "retired_on": ing.retired_on, "retired_reason": ing.retired_reason,
         "values": {prop: [_record(registry, r) for r in ing.values.get(prop, ())] for prop in PROPERTIES},
     }
     return {"ingredient": detail, "registry": registry_version(registry)}
 
 
 def source_list(registry: Registry) -> dict:
-    sources = [{"id": s.id, "citation": s.citation, "kind": s.kind, "year": s.year, "note": s.note} for s in registry.sources.values()]
+    sources = [{"id": s.id, "citation": s.citation, "kind": s.kind, "year": s.year, "note": s.note, "local": s.local}
+               for s in registry.sources.values()]
     return {"count": len(sources), "sources": sources, "registry": registry_version(registry)}

@@ -53,6 +53,8 @@ def resolve(ref: dict, path: tuple, registry: Registry) -> Resolved:
         record = registry.get(ref["ingredient"])
         if record is None:
             raise invalid(path + ("ingredient",), "known_ingredient", f"no ingredient '{ref['ingredient']}' in the registry; GET /v1/ingredients lists them")
+        if record.retired:
+            raise invalid(path + ("ingredient",), "current_ingredient", f"ingredient '{record.id}' was retired on {record.retired_on}: {record.retired_reason}")
         return Resolved(record.id, record.name, record.ionic_class, record.physical_state, record.hlb_is_apparent, record,
                         density_override=override, path=path)
     inline = ref["inline"]
@@ -65,19 +67,21 @@ def _registry_value(item: Resolved, record: ValueRecord, registry: Registry, uni
     span = ing.span(record.property)
     source = registry.sources[record.source_id]
     return {
-        "ingredient": item.ingredient_id, "name": item.name, "property": record.property,
+        "ingredient": item.ingredient_id, "name": item.name, "property": record.property, "pointer": pointer(item.path),
         "figure": record.figure, "low": span[0], "high": span[1], "unit": unit, "origin": "registry",
         "source": {"id": source.id, "citation": source.citation, "kind": source.kind},
-        "locator": record.locator, "status": record.status, "recalled_from_memory": record.recalled_from_memory,
-        "sources_disagree": len(ing.values.get(record.property, ())) > 1, "note": record.note,
+        "locator": record.locator, "kind": record.kind, "status": record.status, "local": record.local,
+        "recalled_from_memory": record.recalled_from_memory,
+        "sources_disagree": len(ing.active(record.property)) > 1, "note": record.note,
     }
 
 
 def _caller_value(item: Resolved, prop: str, figure: float, unit: str | None) -> dict:
     return {
-        "ingredient": item.ingredient_id, "name": item.name, "property": prop, "figure": figure, "low": figure,
-        "high": figure, "unit": unit, "origin": "caller", "source": None, "locator": None, "status": "caller_supplied",
-        "recalled_from_memory": False, "sources_disagree": False, "note": "Supplied in the request; its provenance is the caller's.",
+        "ingredient": item.ingredient_id, "name": item.name, "property": prop, "pointer": pointer(item.path), "figure": figure,
+        "low": figure, "high": figure, "unit": unit, "origin": "caller", "source": None, "locator": None, "kind": None,
+        "status": "caller_supplied", "local": False, "recalled_from_memory": False, "sources_disagree": False,
+        "note": "Supplied in the request; its provenance is the caller's.",
     }
 
 

@@ -11,8 +11,7 @@ from types import MappingProxyType
 
 import pint
 
-UREG = pint.UnitRegistry()
-Q_ = UREG.Quantity
+from registry.units import Q_, UREG
 
 CANONICAL = {"mass": "gram", "volume": "milliliter", "density": "gram / milliliter"}
 

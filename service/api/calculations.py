@@ -21,19 +21,28 @@ def _registry():
     return current_app.extensions["registry"]
 
 
+def _strict(data: dict) -> bool:
+    """Strict when the service is set so (a request cannot relax it), or when
+    the request asks."""
+    return current_app.config["STRICT"] or data.get("strict", False)
+
+
 @bp.post("/blends/hlb")
 def blend_hlb():
-    return answer(BLEND_OUT, calculations.blend(load_body(BLEND_IN), _registry()))
+    data = load_body(BLEND_IN)
+    return answer(BLEND_OUT, calculations.blend(data, _registry(), _strict(data)))
 
 
 @bp.post("/blends/proportions")
 def blend_proportions():
-    return answer(SPLIT_OUT, calculations.split(load_body(SPLIT_IN), _registry()))
+    data = load_body(SPLIT_IN)
+    return answer(SPLIT_OUT, calculations.split(data, _registry(), _strict(data)))
 
 
 @bp.post("/oil-phases/required-hlb")
 def oil_phase_required_hlb():
-    return answer(RHLB_OUT, calculations.oil_phase_rhlb(load_body(RHLB_IN), _registry()))
+    data = load_body(RHLB_IN)
+    return answer(RHLB_OUT, calculations.oil_phase_rhlb(data, _registry(), _strict(data)))
 
 
 @bp.post("/emulsifier/minimum")

@@ -27,6 +27,7 @@ class ValueUsedSchema(Schema):
     ingredient = NullableString(required=True, metadata={"description": "Registry id, or null for an inline ingredient."})
     name = fields.String(required=True)
     property = fields.String(required=True, metadata={"description": "hlb, required_hlb_ow, required_hlb_wo or density."})
+    pointer = fields.String(required=True, metadata={"description": "The request item the value was used for (JSON pointer)."})
     figure = fields.Float(required=True, metadata={"description": "The figure used (the preferred value; the midpoint of a range)."})
     low = fields.Float(required=True)
     high = fields.Float(required=True)
@@ -34,7 +35,9 @@ class ValueUsedSchema(Schema):
     origin = fields.String(required=True, metadata={"description": "registry, or caller (inline or override)."})
     source = fields.Nested(CitationSchema, allow_none=True, required=True)
     locator = NullableString(required=True)
+    kind = NullableString(required=True, metadata={"description": "primary_literature, handbook, textbook, pharmacopeia, standard, calculated or in_house_measurement; null for caller values."})
     status = fields.String(required=True, metadata={"description": "unverified, checked_against_source, measured, or caller_supplied."})
+    local = fields.Boolean(required=True, metadata={"description": "true for a value from the pharmacy's site overlay."})
     recalled_from_memory = fields.Boolean(required=True)
     sources_disagree = fields.Boolean(required=True)
     note = NullableString(required=True)
@@ -49,7 +52,8 @@ class WarningSchema(Schema):
 class RegistryVersionSchema(Schema):
     release = fields.String(required=True)
     digest = fields.String(required=True, metadata={"description": "sha256 of the registry's data files."})
-    version = fields.String(required=True, metadata={"description": "release+sha256.<first 12 hex digits of the digest>"})
+    site_overlay_digest = NullableString(required=True, metadata={"description": "sha256 of the site overlay's files, or null when none is in use."})
+    version = fields.String(required=True, metadata={"description": "release+sha256.<12 hex digits>[.site.<12 hex digits>]; also sent as the Registry-Version header."})
 
 
 class RangeSchema(Schema):
@@ -81,6 +85,7 @@ def answer(name: str, result: type[Schema], inputs: type[Schema]) -> type[Schema
             "values_used": fields.List(fields.Nested(ValueUsedSchema), required=True),
             "warnings": fields.List(fields.Nested(WarningSchema), required=True),
             "cautions": fields.List(fields.String(), required=True),
+            "strict": fields.Boolean(required=True, metadata={"description": "Whether strict mode (verified registry values only) applied."}),
             "registry": fields.Nested(RegistryVersionSchema, required=True),
         },
         name=name,

@@ -21,6 +21,7 @@ class BlendRequestSchema(Schema):
     components = fields.List(fields.Nested(ComponentSchema), required=True, validate=validate.Length(min=2, max=MAX_COMPONENTS),
                              metadata={"description": "Two or more surfactants with their amounts."})
     emulsion_type = one_of(EMULSION_TYPES, metadata={"description": "When given, the blend HLB is checked against the range usual for this type."})
+    strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
 
 class FixedSurfactantSchema(IngredientRefSchema):
@@ -36,6 +37,7 @@ class SplitRequestSchema(Schema):
                         metadata={"description": "Further surfactants at fixed shares of the blend."})
     total = fields.Nested(AbsoluteAmountSchema, metadata={"description": "Scale the blend to this total mass or volume."})
     emulsion_type = one_of(EMULSION_TYPES)
+    strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
 
 class OilComponentSchema(ComponentSchema):
@@ -45,6 +47,7 @@ class OilComponentSchema(ComponentSchema):
 class RequiredHlbRequestSchema(Schema):
     emulsion_type = one_of(EMULSION_TYPES, required=True)
     oil_phase = fields.List(fields.Nested(OilComponentSchema), required=True, validate=validate.Length(min=1, max=MAX_COMPONENTS))
+    strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
 
 class BalanceSchema(Schema):

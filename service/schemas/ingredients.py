@@ -29,16 +29,26 @@ class ValueRecordSchema(Schema):
     high = fields.Float(required=True)
     unit = fields.String(required=True, allow_none=True, metadata={"description": "g/mL for densities; null for HLB values."})
     recorded = fields.Dict(keys=fields.String(), values=fields.Float(), required=True, metadata={"description": "The value as written in the data file (a specific gravity stays a specific gravity)."})
+    recorded_unit = fields.String(required=True, allow_none=True, metadata={"description": "The unit it was written in, where it has one."})
     basis = fields.String(required=True, allow_none=True)
     temperature_c = fields.Float(required=True, allow_none=True)
+    conditions = fields.String(required=True, allow_none=True)
     source = fields.Nested(CitationSchema, required=True)
     locator = fields.String(required=True, allow_none=True)
+    kind = fields.String(required=True)
+    method = fields.String(required=True, allow_none=True, metadata={"description": "For a calculated value, the method."})
     status = fields.String(required=True)
+    reviewed_by = fields.String(required=True, allow_none=True)
+    reviewed_on = fields.String(required=True, allow_none=True)
     recalled_from_memory = fields.Boolean(required=True)
     preferred = fields.Boolean(required=True)
     preferred_reason = fields.String(required=True, allow_none=True)
     midpoint_of_range = fields.Boolean(required=True)
     note = fields.String(required=True, allow_none=True)
+    retired = fields.Boolean(required=True)
+    retired_on = fields.String(required=True, allow_none=True)
+    retired_reason = fields.String(required=True, allow_none=True)
+    local = fields.Boolean(required=True, metadata={"description": "From the pharmacy's site overlay."})
 
 
 class IngredientValuesSchema(Schema):
@@ -46,6 +56,7 @@ class IngredientValuesSchema(Schema):
     required_hlb_ow = fields.List(fields.Nested(ValueRecordSchema), required=True)
     required_hlb_wo = fields.List(fields.Nested(ValueRecordSchema), required=True)
     density = fields.List(fields.Nested(ValueRecordSchema), required=True)
+    molar_mass = fields.List(fields.Nested(ValueRecordSchema), required=True)
 
 
 class IngredientSummarySchema(Schema):
@@ -58,13 +69,19 @@ class IngredientSummarySchema(Schema):
     required_hlb_ow = fields.Float(required=True, allow_none=True)
     required_hlb_wo = fields.Float(required=True, allow_none=True)
     density_g_per_ml = fields.Float(required=True, allow_none=True)
+    molar_mass_g_per_mol = fields.Float(required=True, allow_none=True)
     all_values_verified = fields.Boolean(required=True)
+    local = fields.Boolean(required=True, metadata={"description": "The record is, or has values, from the site overlay."})
 
 
 class IngredientDetailSchema(IngredientSummarySchema):
     synonyms = fields.List(fields.String(), required=True)
+    molecular_formula = fields.String(required=True, allow_none=True)
     hlb_is_apparent = fields.Boolean(required=True)
     note = fields.String(required=True, allow_none=True)
+    retired = fields.Boolean(required=True)
+    retired_on = fields.String(required=True, allow_none=True)
+    retired_reason = fields.String(required=True, allow_none=True)
     values = fields.Nested(IngredientValuesSchema, required=True)
 
 
@@ -85,6 +102,7 @@ class SourceSchema(Schema):
     kind = fields.String(required=True)
     year = fields.Integer(required=True, allow_none=True)
     note = fields.String(required=True, allow_none=True)
+    local = fields.Boolean(required=True)
 
 
 class SourceListSchema(Schema):

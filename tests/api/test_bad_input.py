@@ -119,7 +119,7 @@ def test_unknown_path_is_404_problem(client):
     ("/v1/blends/proportions", {"target_hlb": 10, "pair": [{"ingredient": "polysorbate-80"}, {"ingredient": "sorbitan-monooleate"}],
                                 "total": {"value": 5, "unit": "parts"}}, "#/total/unit"),
     ("/v1/oil-phases/required-hlb", {"emulsion_type": "O/W", "oil_phase": []}, "#/oil_phase"),
-    ("/v1/oil-phases/required-hlb", {"emulsion_type": "O/W", "oil_phase": [comp("almond-oil", 1, "g")]}, "#/oil_phase/0/ingredient"),
+    ("/v1/oil-phases/required-hlb", {"emulsion_type": "O/W", "oil_phase": [comp("glyceryl-monostearate", 1, "g")]}, "#/oil_phase/0/ingredient"),
     ("/v1/oil-phases/required-hlb", {"emulsion_type": "O/W", "oil_phase": [comp("mineral-oil", 1, "g", counts_toward_rhlb="yes")]}, "#/oil_phase/0/counts_toward_rhlb"),
     ("/v1/oil-phases/required-hlb", {"emulsion_type": "O/W", "oil_phase": [comp("mineral-oil", 1, "g", counts_toward_rhlb=False)]}, "#/oil_phase"),
     ("/v1/emulsifier/minimum", {"required_hlb": 20, "surfactant_density": {"value": 1, "unit": "g/mL"},

@@ -11,7 +11,7 @@ MINEM = "/v1/emulsifier/minimum"
 
 
 def envelope_ok(body, registry):
-    assert set(body) == {"result", "inputs", "method", "values_used", "warnings", "cautions", "registry"}
+    assert set(body) == {"result", "inputs", "method", "values_used", "warnings", "cautions", "strict", "registry"}
     assert body["cautions"] == list(CAUTIONS)
     assert "qualified pharmacist" in body["cautions"][0]
     assert body["registry"]["version"] == registry.version

@@ -59,7 +59,8 @@ def test_bibliography(client, registry):
 
 def test_health(client, registry):
     body = client.get("/healthz").get_json()
-    assert body == {"status": "ok", "registry": {"release": registry.release, "digest": registry.digest, "version": registry.version}}
+    assert body == {"status": "ok", "registry": {"release": registry.release, "digest": registry.digest,
+                                                 "site_overlay_digest": None, "version": registry.version}}
 
 
 def test_docs_page(client):
