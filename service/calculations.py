@@ -44,20 +44,27 @@ def _ranges(registry: Registry) -> dict[str, tuple[float, float]]:
     return {name: (r.low, r.high) for name, r in registry.hlb_ranges.ranges.items()}
 
 
-def _densities(items: Sequence[Resolved], amounts: Sequence[Amount], registry: Registry, values_used: list) -> list[float | None]:
-    """Densities where amounts are absolute (to convert volumes, or to report
-    the volume of a mass); recorded in values_used when found."""
-    if not any(a.kind in ABSOLUTE for a in amounts):
-        return [None] * len(items)
+def _densities(items: Sequence[Resolved], needed: Sequence[bool], registry: Registry, values_used: list,
+               strict: bool) -> list[float | None]:
+    """Each item's density where one is known. `needed[i]` says the result
+    depends on it (a volume to convert); otherwise it only reports a volume,
+    so in strict mode an unverified one is left out rather than refused."""
     out = []
-    for item in items:
+    for item, need in zip(items, needed):
         found = density_value(item, registry)
-        if found is None:
+        if found is None or (strict and not need and found[1]["status"] == "unverified"):
             out.append(None)
             continue
         out.append(found[0])
         values_used.append(found[1])
     return out
+
+
+def _amount_densities(items, amounts: Sequence[Amount], registry, values_used, strict) -> list[float | None]:
+    """Densities for amounts: none at all for relative amounts."""
+    if not any(a.kind in ABSOLUTE for a in amounts):
+        return [None] * len(items)
+    return _densities(items, [a.kind == "volume" for a in amounts], registry, values_used, strict)
 
 
 def _required(item: Resolved, prop: str, inline_key: str, registry: Registry, values_used: list, what: str):
@@ -89,7 +96,7 @@ def blend(data: dict, registry: Registry, strict: bool = False) -> dict:
     values_used: list[dict] = []
     hlbs = [_required(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
     amounts = [amount(c["amount"]) for c in components]
-    densities = _densities(items, amounts, registry, values_used)
+    densities = _amount_densities(items, amounts, registry, values_used, strict)
     _enforce_strict(values_used, strict)
     result = blend_hlb(hlbs, amounts, densities)
     emulsion_type = data.get("emulsion_type")
@@ -139,8 +146,8 @@ def split(data: dict, registry: Registry, strict: bool = False) -> dict:
     total_mass = total_volume = None
     densities: list[float | None] = [None] * len(items)
     if total is not None:
-        densities = _densities(items, [Amount("mass", 1.0)], registry, values_used)
         kind, value = to_canonical(total["value"], total["unit"])
+        densities = _densities(items, [kind == "volume"] * len(items), registry, values_used, strict)
         if kind == "mass":
             total_mass = value
         else:
@@ -186,7 +193,7 @@ def oil_phase_rhlb(data: dict, registry: Registry, strict: bool = False) -> dict
         for it, count in zip(items, counts)
     ]
     amounts = [amount(c["amount"]) for c in oil]
-    densities = _densities(items, amounts, registry, values_used)
+    densities = _amount_densities(items, amounts, registry, values_used, strict)
     _enforce_strict(values_used, strict)
     result = required_hlb(rhlbs, amounts, densities, counts)
     inputs = _component_inputs(items, [c["amount"] for c in oil], result.weighed, result.phase_fractions)

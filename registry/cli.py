@@ -1,0 +1,281 @@
+"""The data steward's command line: check, list, show, report and diff a
+registry tree. Every command reads the shipped registry unless --root names
+another tree (a working copy); --overlay adds a site overlay.
+
+Exit status: 0 when all is well; 1 when a check fails, an id is unknown, or a
+diff finds a record deleted rather than retired; 2 for usage errors."""
+from __future__ import annotations
+
+import argparse
+import json
+import os
+import sys
+from collections import Counter
+from pathlib import Path
+from typing import Sequence
+
+from registry.errors import RegistryError
+from registry.loader import DEFAULT_ROOT, check_tree, load_registry
+from registry.model import PROPERTIES, UNITS, Ingredient, Registry, ValueRecord
+
+HLB_PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo")
+
+
+def _out(text: str = "") -> None:
+    sys.stdout.write(text + "\n")
+
+
+def _err(text: str) -> None:
+    sys.stderr.write(text + "\n")
+
+
+def _load(args) -> Registry | None:
+    try:
+        return load_registry(args.root, args.overlay)
+    except RegistryError as exc:
+        _err(f"error: {exc.file}: {exc.field}: {exc.message}")
+        return None
+
+
+def _fmt(record: ValueRecord | None) -> str:
+    if record is None:
+        return "-"
+    text = f"{record.low:g}-{record.high:g}" if record.is_range else f"{record.figure:g}"
+    return text + ("*" if record.local else "")
+
+
+def cmd_check(args) -> int:
+    registry, errors = check_tree(args.root, args.overlay)
+    for exc in errors:
+        _err(f"error: {exc.file}: {exc.field}: {exc.message}")
+    if errors:
+        _err(f"{len(errors)} error(s); the registry was not accepted")
+        return 1
+    n_values = sum(len(records) for ing in registry.ingredients.values() for records in ing.values.values())
+    _out(f"ok: release {registry.release}, {len(registry.ingredients)} ingredients, {n_values} values, "
+         f"{len(registry.sources)} sources, {len(registry.davies_groups)} Davies groups; version {registry.version}")
+    return 0
+
+
+def cmd_list(args) -> int:
+    registry = _load(args)
+    if registry is None:
+        return 1
+    _out(f"{'id':<40} {'HLB':>7} {'RHLB O/W':>9} {'RHLB W/O':>9} {'g/mL':>8}  roles")
+    for ing in registry.ingredients.values():
+        if args.role and args.role not in ing.roles:
+            continue
+        if ing.retired and not args.all:
+            continue
+        cells = [_fmt(ing.preferred(p)) for p in ("hlb", "required_hlb_ow", "required_hlb_wo")]
+        density = ing.preferred("density")
+        flag = " (retired)" if ing.retired else ""
+        _out(f"{ing.id:<40} {cells[0]:>7} {cells[1]:>9} {cells[2]:>9} {(f'{density.figure:.4f}' if density else '-'):>8}  {','.join(ing.roles)}{flag}")
+    _out("(* a value from the site overlay)")
+    return 0
+
+
+def _value_lines(registry: Registry, record: ValueRecord) -> list[str]:
+    source = registry.sources[record.source_id]
+    unit = f" {UNITS[record.property]}" if record.property in UNITS else ""
+    head = f"{record.low:g} to {record.high:g}{unit}" if record.is_range else f"{record.figure:g}{unit}"
+    marks = [m for m, on in [("preferred", record.preferred), ("midpoint of range", record.midpoint_of_range),
+                             ("recalled from memory", record.recalled_from_memory), ("site overlay", record.local),
+                             ("RETIRED", record.retired)] if on]
+    lines = [f"  {head}" + (f"  [{', '.join(marks)}]" if marks else "")]
+    if record.recorded and record.basis == "specific_gravity_25_25":
+        lines.append(f"    recorded as specific gravity 25/25: {dict(record.recorded)}")
+    elif record.unit and record.unit != UNITS.get(record.property):
+        lines.append(f"    recorded as {dict(record.recorded)} {record.unit}")
+    lines.append(f"    source: {source.id}: {source.citation}")
+    for label, value in [("locator", record.locator), ("kind", record.kind), ("method", record.method),
+                         ("status", record.status), ("reviewed", " on ".join(filter(None, [record.reviewed_by, record.reviewed_on])) or None),
+                         ("temperature", f"{record.temperature_c:g} degC" if record.temperature_c is not None else None),
+                         ("conditions", record.conditions), ("why preferred", record.preferred_reason), ("note", record.note),
+                         ("retired", f"{record.retired_on}: {record.retired_reason}" if record.retired else None)]:
+        if value:
+            lines.append(f"    {label}: {value}")
+    return lines
+
+
+def cmd_show(args) -> int:
+    registry = _load(args)
+    if registry is None:
+        return 1
+    ing = registry.get(args.id)
+    if ing is None:
+        _err(f"error: no ingredient '{args.id}' in {args.root}")
+        return 1
+    _out(f"{ing.id}: {ing.name}" + ("  (RETIRED " + f"{ing.retired_on}: {ing.retired_reason})" if ing.retired else ""))
+    _out(f"  roles: {', '.join(ing.roles)}; ionic class: {ing.ionic_class}; state: {ing.physical_state}")
+    if ing.synonyms:
+        _out(f"  synonyms: {', '.join(ing.synonyms)}")
+    if ing.molecular_formula:
+        _out(f"  formula: {ing.molecular_formula}")
+    if ing.note:
+        _out(f"  note: {ing.note}")
+    for prop in PROPERTIES:
+        records = ing.values.get(prop, ())
+        if records:
+            _out(f"{prop}:")
+            for record in records:
+                for line in _value_lines(registry, record):
+                    _out(line)
+    return 0
+
+
+def report_data(registry: Registry, hlb_threshold: float, density_threshold: float) -> dict:
+    records = [r for ing in registry.ingredients.values() for prop in ing.values for r in ing.active(prop)]
+    records += [r for g in registry.davies_groups.values() for r in g.values if not r.retired]
+    current = [ing for ing in registry.ingredients.values() if not ing.retired]
+    disagreements = []
+    for ing in current:
+        for prop in ing.values:
+            active = ing.active(prop)
+            if len(active) < 2:
+                continue
+            low, high = ing.span(prop)
+            limit = density_threshold if prop == "density" else hlb_threshold
+            # Densities at different temperatures differ by nature, not by dispute.
+            if prop == "density" and len({r.temperature_c for r in active}) > 1:
+                continue
+            if high - low > limit:
+                disagreements.append({"ingredient": ing.id, "property": prop, "low": low, "high": high,
+                                      "sources": sorted({r.source_id for r in active})})
+    return {
+        "release": registry.release, "version": registry.version,
+        "values": len(records),
+        "by_status": dict(sorted(Counter(r.status for r in records).items())),
+        "by_kind": dict(sorted(Counter(r.kind for r in records).items())),
+        "recalled_from_memory": sum(r.recalled_from_memory for r in records),
+        "lacking_density": sorted(i.id for i in current if not i.active("density")),
+        "oil_phase_lacking_required_hlb_ow": sorted(i.id for i in current if "oil_phase" in i.roles and not i.active("required_hlb_ow")),
+        "oil_phase_lacking_required_hlb_wo": sorted(i.id for i in current if "oil_phase" in i.roles and not i.active("required_hlb_wo")),
+        "surfactants_lacking_hlb": sorted(i.id for i in current if "surfactant" in i.roles and not i.active("hlb")),
+        "disagreements": disagreements,
+        "thresholds": {"hlb": hlb_threshold, "density_g_per_ml": density_threshold},
+    }
+
+
+def cmd_report(args) -> int:
+    registry = _load(args)
+    if registry is None:
+        return 1
+    data = report_data(registry, args.threshold, args.density_threshold)
+    if args.json:
+        _out(json.dumps(data, indent=2))
+        return 0
+    _out(f"registry {data['version']}: {data['values']} current values")
+    _out("by status: " + ", ".join(f"{k} {v}" for k, v in data["by_status"].items()))
+    _out("by kind: " + ", ".join(f"{k} {v}" for k, v in data["by_kind"].items()))
+    _out(f"recalled from memory: {data['recalled_from_memory']}")
+    for key, label in [("lacking_density", "lacking a density"), ("oil_phase_lacking_required_hlb_ow", "oil phase lacking an O/W required HLB"),
+                       ("oil_phase_lacking_required_hlb_wo", "oil phase lacking a W/O required HLB"), ("surfactants_lacking_hlb", "surfactants lacking an HLB")]:
+        _out(f"{label} ({len(data[key])}): {', '.join(data[key]) or 'none'}")
+    _out(f"sources disagreeing by more than {args.threshold:g} HLB units or {args.density_threshold:g} g/mL ({len(data['disagreements'])}):")
+    for d in data["disagreements"]:
+        _out(f"  {d['ingredient']} {d['property']}: {d['low']:g} to {d['high']:g} ({', '.join(d['sources'])})")
+    return 0
+
+
+def _key(record: ValueRecord) -> tuple:
+    # A value's identity across two trees: what it is of, and where it is from.
+    return (record.source_id, record.locator, record.basis, record.temperature_c)
+
+
+COMPARED = ("low", "high", "kind", "status", "preferred", "retired", "recalled_from_memory", "method", "note", "reviewed_by", "reviewed_on", "unit")
+
+
+def diff_lines(old: Registry, new: Registry) -> tuple[list[str], list[str]]:
+    """(changes, deletions): what changed from OLD to NEW, and what was
+    deleted where it should have been retired."""
+    changes, deletions = [], []
+    for iid in sorted(set(old.ingredients) | set(new.ingredients)):
+        a, b = old.get(iid), new.get(iid)
+        if a is None:
+            changes.append(f"+ {iid}: new ingredient ({b.name})")
+            continue
+        if b is None:
+            deletions.append(f"- {iid}: ingredient deleted (records are retired, never deleted)")
+            continue
+        if not a.retired and b.retired:
+            changes.append(f"~ {iid}: retired on {b.retired_on}: {b.retired_reason}")
+        for prop in PROPERTIES:
+            olds = {_key(r): r for r in a.values.get(prop, ())}
+            news = {_key(r): r for r in b.values.get(prop, ())}
+            for key in sorted(set(olds) | set(news), key=str):
+                ra, rb = olds.get(key), news.get(key)
+                label = f"{iid} {prop} [{key[0]}{', ' + key[1] if key[1] else ''}]"
+                if ra is None:
+                    changes.append(f"+ {label}: {_fmt(rb)} ({rb.status})")
+                elif rb is None:
+                    deletions.append(f"- {label}: {_fmt(ra)} deleted (values are retired, never deleted)")
+                else:
+                    for attr in COMPARED:
+                        va, vb = getattr(ra, attr), getattr(rb, attr)
+                        if va != vb:
+                            changes.append(f"~ {label}: {attr} {va!r} -> {vb!r}")
+    for sid in sorted(set(old.sources) - set(new.sources)):
+        deletions.append(f"- source {sid} deleted (sources are only ever added)")
+    for sid in sorted(set(new.sources) - set(old.sources)):
+        changes.append(f"+ source {sid}")
+    if old.release == new.release and old.digest != new.digest:
+        changes.append(f"! the content changed but the release is still {new.release}: bump it in registry.toml")
+    return changes, deletions
+
+
+def cmd_diff(args) -> int:
+    try:
+        old, new = load_registry(args.old), load_registry(args.new)
+    except RegistryError as exc:
+        _err(f"error: {exc.file}: {exc.field}: {exc.message}")
+        return 1
+    changes, deletions = diff_lines(old, new)
+    _out(f"{old.version} -> {new.version}")
+    for line in changes + deletions:
+        _out(line)
+    _out(f"{len(changes)} change(s), {len(deletions)} deletion(s)")
+    return 1 if deletions else 0
+
+
+def parser() -> argparse.ArgumentParser:
+    p = argparse.ArgumentParser(prog="emulsion-registry", description="Check, read and compare the ingredient registry.")
+    sub = p.add_subparsers(dest="command", required=True)
+
+    def tree(sp):
+        sp.add_argument("--root", type=Path, default=DEFAULT_ROOT, help="registry tree (default: the shipped one)")
+        sp.add_argument("--overlay", type=Path, default=None, help="a site overlay folder to apply")
+        return sp
+
+    tree(sub.add_parser("check", help="validate every file")).set_defaults(fn=cmd_check)
+    sp = tree(sub.add_parser("list", help="ingredients with their preferred values"))
+    sp.add_argument("--role", choices=["surfactant", "oil_phase", "aqueous_phase", "hydrocolloid"])
+    sp.add_argument("--all", action="store_true", help="include retired records")
+    sp.set_defaults(fn=cmd_list)
+    sp = tree(sub.add_parser("show", help="one ingredient, every value and its provenance"))
+    sp.add_argument("id")
+    sp.set_defaults(fn=cmd_show)
+    sp = tree(sub.add_parser("report", help="provenance coverage and disagreements"))
+    sp.add_argument("--threshold", type=float, default=2.0, help="HLB units of disagreement to report (default 2)")
+    sp.add_argument("--density-threshold", type=float, default=0.02, help="g/mL of disagreement to report (default 0.02)")
+    sp.add_argument("--json", action="store_true")
+    sp.set_defaults(fn=cmd_report)
+    sp = sub.add_parser("diff", help="values that changed between two registry trees")
+    sp.add_argument("old", type=Path)
+    sp.add_argument("new", type=Path)
+    sp.set_defaults(fn=cmd_diff)
+    return p
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    args = parser().parse_args(argv)
+    try:
+        return args.fn(args)
+    except BrokenPipeError:
+        # The reader (head, less) went away: not an error of the registry.
+        sys.stdout = open(os.devnull, "w")
+        return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())

@@ -1,0 +1,150 @@
+"""The steward's command line: exit codes and messages, on the shipped
+registry and on broken working copies."""
+from __future__ import annotations
+
+import json
+import shutil
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from registry import DEFAULT_ROOT
+from registry.cli import main
+
+OVERLAY = Path(__file__).resolve().parents[1] / "fixtures" / "site-overlay"
+
+
+@pytest.fixture()
+def tree(tmp_path) -> Path:
+    root = tmp_path / "data"
+    shutil.copytree(DEFAULT_ROOT, root)
+    return root
+
+
+def run(capsys, *argv):
+    code = main(list(map(str, argv)))
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def edit(path: Path, old: str, new: str) -> None:
+    text = path.read_text()
+    assert old in text
+    path.write_text(text.replace(old, new, 1))
+
+
+def test_check_shipped_registry(capsys, registry):
+    code, out, err = run(capsys, "check")
+    assert code == 0 and err == ""
+    assert out.startswith(f"ok: release {registry.release}, {len(registry.ingredients)} ingredients")
+
+
+def test_check_reports_every_broken_file(capsys, tree):
+    edit(tree / "ingredients" / "olive-oil.toml", 'source = "martin"', 'source = "nowhere"')
+    edit(tree / "ingredients" / "castor-oil.toml", 'id = "castor-oil"', 'id = "castor"')
+    edit(tree / "ingredients" / "glycerin.toml", "value = 1.249", "value = 1249.0")
+    code, out, err = run(capsys, "check", "--root", tree)
+    assert code == 1 and out == ""
+    assert "error: data/ingredients/olive-oil.toml: values/required_hlb_ow/0/source: unknown source 'nowhere'" in err
+    assert "error: data/ingredients/castor-oil.toml: id: id 'castor' differs from the file name 'castor-oil'" in err
+    assert "glycerin.toml: values/density/0/value:" in err and "not a plausible density" in err
+    assert "3 error(s)" in err
+
+
+def test_check_refuses_a_unit_that_is_not_a_density(capsys, tree):
+    edit(tree / "ingredients" / "purified-water.toml", 'unit = "g/mL"', 'unit = "g/m"')
+    code, _, err = run(capsys, "check", "--root", tree)
+    assert code == 1
+    assert "purified-water.toml: values/density/0/unit: 'g/m' is not a unit of density" in err
+
+
+def test_check_refuses_a_duplicate_synonym(capsys, tree):
+    edit(tree / "ingredients" / "olive-oil.toml", 'name = "Olive oil"', 'name = "Olive oil"\nsynonyms = ["glycerol"]')
+    code, _, err = run(capsys, "check", "--root", tree)
+    assert code == 1 and "'glycerol' already names ingredient 'glycerin'" in err
+
+
+def test_check_with_overlay(capsys):
+    code, out, _ = run(capsys, "check", "--overlay", OVERLAY)
+    assert code == 0 and ".site." in out
+
+
+def test_list_and_filter(capsys):
+    code, out, _ = run(capsys, "list", "--role", "oil_phase")
+    assert code == 0
+    assert "castor-oil" in out and "polysorbate-80" not in out
+
+
+def test_show_gives_provenance(capsys):
+    code, out, _ = run(capsys, "show", "castor-oil")
+    assert code == 0
+    assert "source: martin:" in out and "why preferred:" in out and "recorded as specific gravity 25/25" in out
+
+
+def test_show_unknown_id(capsys):
+    code, out, err = run(capsys, "show", "no-such-thing")
+    assert code == 1 and "no ingredient 'no-such-thing'" in err
+
+
+def test_report_counts_and_disagreements(capsys, registry):
+    code, out, _ = run(capsys, "report", "--json")
+    assert code == 0
+    data = json.loads(out)
+    assert sum(data["by_status"].values()) == data["values"]
+    assert {d["ingredient"] for d in data["disagreements"]} >= {"castor-oil", "dimethicone", "white-wax"}
+    assert "glyceryl-monostearate" in data["oil_phase_lacking_required_hlb_ow"]
+    code, out, _ = run(capsys, "report", "--threshold", "5")
+    assert "castor-oil required_hlb_ow: 6 to 14" in out and "white-wax" not in out.split("sources disagreeing")[1]
+
+
+def test_diff_shows_changes(capsys, tree):
+    edit(tree / "ingredients" / "olive-oil.toml", "value = 7.0", "value = 7.5")
+    edit(tree / "ingredients" / "olive-oil.toml", 'status = "unverified"\nrecalled_from_memory = true',
+         'status = "checked_against_source"\nreviewed_by = "steward"\nreviewed_on = "2026-12-01"')
+    code, out, _ = run(capsys, "diff", DEFAULT_ROOT, tree)
+    assert code == 0
+    assert "~ olive-oil required_hlb_ow [martin]: low 7.0 -> 7.5" in out
+    assert "~ olive-oil required_hlb_ow [martin]: status 'unverified' -> 'checked_against_source'" in out
+    assert "bump it in registry.toml" in out
+
+
+def test_diff_flags_deletion_instead_of_retirement(capsys, tree):
+    (tree / "ingredients" / "olive-oil.toml").unlink()
+    code, out, _ = run(capsys, "diff", DEFAULT_ROOT, tree)
+    assert code == 1 and "- olive-oil: ingredient deleted (records are retired, never deleted)" in out
+
+
+def test_retiring_a_record(capsys, tree):
+    edit(tree / "ingredients" / "olive-oil.toml", 'physical_state = "liquid"',
+         'physical_state = "liquid"\nretired = true\nretired_on = "2026-12-01"\nretired_reason = "merged into another record"')
+    code, out, _ = run(capsys, "diff", DEFAULT_ROOT, tree)
+    assert code == 0 and "~ olive-oil: retired on 2026-12-01: merged into another record" in out
+    code, out, _ = run(capsys, "list", "--root", tree)
+    assert "olive-oil" not in out
+
+
+def test_retired_without_reason_is_refused(capsys, tree):
+    edit(tree / "ingredients" / "olive-oil.toml", 'physical_state = "liquid"', 'physical_state = "liquid"\nretired = true')
+    code, _, err = run(capsys, "check", "--root", tree)
+    assert code == 1 and "olive-oil.toml: (top level):" in err and "retired_on" in err
+
+
+def test_diff_on_a_broken_tree(capsys, tree):
+    edit(tree / "sources.toml", 'kind = "textbook"', 'kind = "rumour"')
+    code, _, err = run(capsys, "diff", DEFAULT_ROOT, tree)
+    assert code == 1 and "sources.toml: sources/martin/kind" in err
+
+
+def test_usage_error_exits_2(capsys):
+    with pytest.raises(SystemExit) as exc:
+        main(["frobnicate"])
+    assert exc.value.code == 2
+
+
+def test_installed_command():
+    # The command is installed with the package (pyproject [project.scripts]).
+    exe = Path(sys.executable).with_name("emulsion-registry")
+    done = subprocess.run([str(exe), "check"], capture_output=True, text=True, timeout=60)
+    assert done.returncode == 0 and done.stdout.startswith("ok: release")
