@@ -121,7 +121,7 @@ def test_split_target_out_of_reach_names_the_range(client):
 
 def test_required_hlb_of_an_oil_phase(client, registry):
     # Hand-computed with Griffin's rule: light mineral oil 10 (11, range 10-12),
-    # isopropyl myristate 8 (11.5), cetyl alcohol 2 (15) -> 11.6, span 11.1-12.1.
+    # isopropyl myristate 8 (11.5), cetyl alcohol 2 (15) -> 11.6, range 11.1 to 12.1.
     r = client.post(RHLB, json={"emulsion_type": "O/W", "oil_phase": [
         comp("light-mineral-oil", 10, "% w/w"), comp("isopropyl-myristate", 8, "% w/w"), comp("cetyl-alcohol", 2, "% w/w")]})
     result = envelope_ok(r.get_json(), registry)

@@ -21,7 +21,7 @@ PAIR = re.compile(r"```sh\n(curl [^\n]*)\n```\n\n```json\n(.*?)\n```", re.S)
 
 
 def examples(text: str):
-    return [(m.group(1), m.group(2), m.span(2)) for m in PAIR.finditer(text)]
+    return [(m.group(1), m.group(2), (m.start(2), m.end(2))) for m in PAIR.finditer(text)]
 
 
 def parse_curl(command: str):

@@ -46,7 +46,7 @@ def test_blend_by_volume_differs_from_naive_volume_mean():
 
 
 def test_span_follows_disagreeing_sources():
-    # Hand-computed: equal masses of HLB 8-12 (preferred 8) and 4: 6.0, span 6.0-8.0.
+    # Hand-computed: equal masses of HLB 8-12 (preferred 8) and 4: 6.0, range 6.0 to 8.0.
     result = blend_hlb([HlbValue(8.0, 8.0, 12.0), hv(4.0)], [Amount("mass", 1), Amount("mass", 1)], [None, None])
     assert (result.hlb.figure, result.hlb.low, result.hlb.high) == pytest.approx((6.0, 6.0, 8.0))
 
