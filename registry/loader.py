@@ -24,6 +24,8 @@ from registry.model import (
     PROPERTIES,
     WATER_DENSITY_25C_G_PER_ML,
     DaviesGroup,
+    EmulsifierLevel,
+    EmulsifierLevelTable,
     HlbRange,
     HlbRangeTable,
     Ingredient,
@@ -156,7 +158,8 @@ def _ingredient(data: dict, file: str, sources: dict, local: bool) -> Ingredient
     return Ingredient(
         id=data["id"], name=data["name"], roles=tuple(data["roles"]), ionic_class=data["ionic_class"],
         physical_state=data["physical_state"], synonyms=tuple(data.get("synonyms", ())),
-        molecular_formula=data.get("molecular_formula"), hlb_is_apparent=data.get("hlb_is_apparent", False),
+        molecular_formula=data.get("molecular_formula"), fatty_chain=data.get("fatty_chain"),
+        viscous=data.get("viscous", False), hlb_is_apparent=data.get("hlb_is_apparent", False),
         note=data.get("note"), retired=data.get("retired", False), retired_on=data.get("retired_on"),
         retired_reason=data.get("retired_reason"), local=local, values=frozen_mapping(values),
     )
@@ -190,6 +193,20 @@ def _hlb_ranges(data: dict, file: str, sources: dict) -> HlbRangeTable:
     return HlbRangeTable(ranges=frozen_mapping(ranges), source_id=table["source"], status=table["status"],
                          recalled_from_memory=table.get("recalled_from_memory", False),
                          locator=table.get("locator"), note=table.get("note"))
+
+
+def _emulsifier_levels(data: dict, file: str, sources: dict) -> EmulsifierLevelTable:
+    table = data["emulsifier_levels"]
+    if table["source"] not in sources:
+        raise RegistryError(file, "emulsifier_levels/source", f"unknown source '{table['source']}' (not in sources.toml)")
+    families = []
+    for name, f in table["families"].items():
+        for key in ("alone", "with_partner"):
+            if f[key]["low"] > f[key]["high"]:
+                raise RegistryError(file, f"emulsifier_levels/families/{name}/{key}/low", "low is greater than high")
+        families.append(EmulsifierLevel(name, f["id_prefix"], (f["alone"]["low"], f["alone"]["high"]),
+                                        (f["with_partner"]["low"], f["with_partner"]["high"])))
+    return EmulsifierLevelTable(tuple(families), table["source"], table["status"], table.get("recalled_from_memory", False))
 
 
 def _davies(data: dict, file: str, sources: dict) -> dict[str, DaviesGroup]:
@@ -242,12 +259,13 @@ def _build(root: Path, overlay: Path | None, collect: bool) -> tuple[Registry | 
 
     sources = c.run(_load_sources, sources_path, root, False) or {}
     release_data = c.run(_read_toml, release_path, root)
-    hlb_ranges = None
+    hlb_ranges = levels = None
     if release_data is not None:
         n_before = len(c.errors)
         c.run(_check_schema, release_data, _validator("release.schema.json"), _rel(release_path, root))
         if len(c.errors) == n_before:
             hlb_ranges = c.run(_hlb_ranges, release_data, _rel(release_path, root), sources)
+            levels = c.run(_emulsifier_levels, release_data, _rel(release_path, root), sources)
     davies_data = c.run(_read_toml, davies_path, root)
     davies = {}
     if davies_data is not None:
@@ -312,6 +330,7 @@ def _build(root: Path, overlay: Path | None, collect: bool) -> tuple[Registry | 
         sources=frozen_mapping(sources),
         hlb_ranges=hlb_ranges,
         davies_groups=frozen_mapping(davies),
+        emulsifier_levels=levels,
         overlay_digest=overlay_digest,
         overlay_root=str(overlay) if overlay is not None else None,
     )

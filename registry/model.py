@@ -82,6 +82,8 @@ class Ingredient:
     physical_state: str
     synonyms: tuple[str, ...] = ()
     molecular_formula: str | None = None
+    fatty_chain: str | None = None
+    viscous: bool = False
     hlb_is_apparent: bool = False
     note: str | None = None
     retired: bool = False
@@ -132,6 +134,30 @@ class HlbRangeTable:
 
 
 @dataclass(frozen=True)
+class EmulsifierLevel:
+    """Usual level of a surfactant family, % w/w of the formula."""
+
+    family: str
+    id_prefix: str
+    alone: tuple[float, float]
+    with_partner: tuple[float, float]
+
+
+@dataclass(frozen=True)
+class EmulsifierLevelTable:
+    families: tuple[EmulsifierLevel, ...]
+    source_id: str
+    status: str
+    recalled_from_memory: bool
+
+    def for_ingredient(self, ingredient_id: str) -> EmulsifierLevel | None:
+        for level in self.families:
+            if ingredient_id.startswith(level.id_prefix):
+                return level
+        return None
+
+
+@dataclass(frozen=True)
 class DaviesGroup:
     """A Davies group number: its preferred value and any others recorded."""
 
@@ -156,6 +182,7 @@ class Registry:
     sources: Mapping[str, Source]
     hlb_ranges: HlbRangeTable
     davies_groups: Mapping[str, DaviesGroup] = field(default_factory=dict)
+    emulsifier_levels: EmulsifierLevelTable | None = None
     overlay_digest: str | None = None
     overlay_root: str | None = None
 

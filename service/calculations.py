@@ -9,72 +9,23 @@ from registry import Registry
 from service import methods
 from service.answers import envelope, hlb_display, unrounded
 from service.core import findings as core_findings
-from service.core.amounts import ABSOLUTE, Amount
 from service.core.blend import blend_hlb
 from service.core.emulsifier import minimum_emulsifier
 from service.core.required_hlb import required_hlb
 from service.core.split import split_for_target, total_mass_from_volume
 from service.notices import apparent_hlb_warning, finding_warnings, solid_by_volume_warning
-from service.resolve import RHLB_PROPERTY, Resolved, amount, checked_density, density_value, invalid, resolve, scalar_value
-from service.errors import TYPE_CALCULATION, ApiProblem
+from service.lookups import (
+    BATCH_INCREMENT_G,
+    DEFAULT_ERROR_PERCENT,
+    DEFAULT_SENSITIVITY_G,
+    amount_densities,
+    densities_for,
+    enforce_strict,
+    hlb_ranges,
+    required_value,
+)
+from service.resolve import RHLB_PROPERTY, Resolved, amount, checked_density, invalid, resolve
 from service.units import to_canonical
-
-# Class A prescription balance (USP <1176>): sensitivity requirement 6 mg, and
-# the acceptable error pharmacies commonly work to, 5 %.
-DEFAULT_SENSITIVITY_G = 0.006
-DEFAULT_ERROR_PERCENT = 5.0
-# Balance increment a batch amount is rounded up to (common practice, no source).
-BATCH_INCREMENT_G = 0.01
-
-
-def _enforce_strict(values_used: list[dict], strict: bool) -> None:
-    """Strict mode: refuse registry values not yet checked against their
-    source, naming each. Caller-supplied values are the caller's to vouch for."""
-    if not strict:
-        return
-    refused = [v for v in values_used if v["origin"] == "registry" and v["status"] == "unverified"]
-    if refused:
-        errors = [{"pointer": v["pointer"], "rule": "verified_values_only",
-                   "detail": f"{v['ingredient']} {v['property']} ({v['figure']:g}, source {v['source']['id']}) is unverified"} for v in refused]
-        raise ApiProblem(422, "Unverified values refused", f"strict mode: {len(refused)} value(s) used here are not yet checked against their source",
-                         type_=TYPE_CALCULATION, errors=errors)
-
-
-def _ranges(registry: Registry) -> dict[str, tuple[float, float]]:
-    return {name: (r.low, r.high) for name, r in registry.hlb_ranges.ranges.items()}
-
-
-def _densities(items: Sequence[Resolved], needed: Sequence[bool], registry: Registry, values_used: list,
-               strict: bool) -> list[float | None]:
-    """Each item's density where one is known. `needed[i]` says the result
-    depends on it (a volume to convert); otherwise it only reports a volume,
-    so in strict mode an unverified one is left out rather than refused."""
-    out = []
-    for item, need in zip(items, needed):
-        found = density_value(item, registry)
-        if found is None or (strict and not need and found[1]["status"] == "unverified"):
-            out.append(None)
-            continue
-        out.append(found[0])
-        values_used.append(found[1])
-    return out
-
-
-def _amount_densities(items, amounts: Sequence[Amount], registry, values_used, strict) -> list[float | None]:
-    """Densities for amounts: none at all for relative amounts."""
-    if not any(a.kind in ABSOLUTE for a in amounts):
-        return [None] * len(items)
-    return _densities(items, [a.kind == "volume" for a in amounts], registry, values_used, strict)
-
-
-def _required(item: Resolved, prop: str, inline_key: str, registry: Registry, values_used: list, what: str):
-    found = scalar_value(item, prop, inline_key, registry)
-    if found is None:
-        where = item.path + (("inline", inline_key) if item.record is None else ("ingredient",))
-        raise invalid(where, f"{prop}_known", f"no {what} is known for {item.label}: describe the ingredient inline with a value from your own source, or choose another ingredient")
-    values_used.append(found[1])
-    return found[0]
-
 
 def _component_inputs(items, given, weighed, fractions) -> list[dict]:
     return [
@@ -94,15 +45,15 @@ def blend(data: dict, registry: Registry, strict: bool = False) -> dict:
     components = data["components"]
     items = [resolve(c, ("components", i), registry) for i, c in enumerate(components)]
     values_used: list[dict] = []
-    hlbs = [_required(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
+    hlbs = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
     amounts = [amount(c["amount"]) for c in components]
-    densities = _amount_densities(items, amounts, registry, values_used, strict)
-    _enforce_strict(values_used, strict)
+    densities = amount_densities(items, amounts, registry, values_used, strict)
+    enforce_strict(values_used, strict)
     result = blend_hlb(hlbs, amounts, densities)
     emulsion_type = data.get("emulsion_type")
     warnings = finding_warnings([
         *core_findings.ionic_findings([it.ionic_class for it in items]),
-        core_findings.usual_range_finding(result.hlb.figure, emulsion_type, _ranges(registry)),
+        core_findings.usual_range_finding(result.hlb.figure, emulsion_type, hlb_ranges(registry)),
     ]) + _common_warnings(items, [c["amount"] for c in components])
     return envelope(
         result={"hlb": hlb_display(result.hlb.figure), "hlb_unrounded": unrounded(result.hlb.figure),
@@ -137,7 +88,7 @@ def split(data: dict, registry: Registry, strict: bool = False) -> dict:
     fixed = data.get("fixed", [])
     fixed_items = [resolve(f, ("fixed", i), registry) for i, f in enumerate(fixed)]
     items = pair + fixed_items
-    hlbs = [_required(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
+    hlbs = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
     total = data.get("total")
     fixed_fractions = _fixed_fractions(fixed, total)
     target = data["target_hlb"]
@@ -147,7 +98,7 @@ def split(data: dict, registry: Registry, strict: bool = False) -> dict:
     densities: list[float | None] = [None] * len(items)
     if total is not None:
         kind, value = to_canonical(total["value"], total["unit"])
-        densities = _densities(items, [kind == "volume"] * len(items), registry, values_used, strict)
+        densities = densities_for(items, [kind == "volume"] * len(items), registry, values_used, strict)
         if kind == "mass":
             total_mass = value
         else:
@@ -157,7 +108,7 @@ def split(data: dict, registry: Registry, strict: bool = False) -> dict:
                 raise invalid(it.path, "density_needed_for_volume", f"a total given as a volume needs the density of every surfactant; none is known for {it.label}: give it with 'density'")
             total_volume = value
             total_mass = total_mass_from_volume(value, solved.fractions, densities)
-    _enforce_strict(values_used, strict)
+    enforce_strict(values_used, strict)
     surfactants = []
     for i, (it, fraction, h, d) in enumerate(zip(items, solved.fractions, hlbs, densities)):
         mass = fraction * total_mass if total_mass is not None else None
@@ -169,7 +120,7 @@ def split(data: dict, registry: Registry, strict: bool = False) -> dict:
     emulsion_type = data.get("emulsion_type")
     warnings = finding_warnings([
         *core_findings.ionic_findings([it.ionic_class for it in items]),
-        core_findings.usual_range_finding(solved.hlb.figure, emulsion_type, _ranges(registry)),
+        core_findings.usual_range_finding(solved.hlb.figure, emulsion_type, hlb_ranges(registry)),
     ]) + apparent_hlb_warning(it.label for it in items if it.hlb_is_apparent)
     return envelope(
         result={"target_hlb": target, "hlb_reached": hlb_display(solved.hlb.figure),
@@ -189,12 +140,12 @@ def oil_phase_rhlb(data: dict, registry: Registry, strict: bool = False) -> dict
     counts = [c.get("counts_toward_rhlb", True) for c in oil]
     values_used: list[dict] = []
     rhlbs = [
-        _required(it, prop, "required_hlb", registry, values_used, f"{emulsion_type} required HLB") if count else None
+        required_value(it, prop, "required_hlb", registry, values_used, f"{emulsion_type} required HLB") if count else None
         for it, count in zip(items, counts)
     ]
     amounts = [amount(c["amount"]) for c in oil]
-    densities = _amount_densities(items, amounts, registry, values_used, strict)
-    _enforce_strict(values_used, strict)
+    densities = amount_densities(items, amounts, registry, values_used, strict)
+    enforce_strict(values_used, strict)
     result = required_hlb(rhlbs, amounts, densities, counts)
     inputs = _component_inputs(items, [c["amount"] for c in oil], result.weighed, result.phase_fractions)
     for row, count, counted in zip(inputs, counts, result.counted_fractions):

@@ -10,6 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Sequence
 
+from service.core.batch import mixture_mass_for_volume
 from service.core.blend import HlbValue
 from service.core.errors import CalculationError, InfeasibleTarget
 from service.core.mixing import Mean, Term, weighted_mean
@@ -57,12 +58,6 @@ def split_for_target(target_hlb: float, pair: Sequence[HlbValue], fixed: Sequenc
 
 
 def total_mass_from_volume(volume_ml: float, fractions: Sequence[float], densities_g_per_ml: Sequence[float | None]) -> float:
-    """Mass of a blend of the given mass fractions that fills `volume_ml`,
-    assuming volumes add (no contraction on mixing). Raises CalculationError
-    when a density is missing."""
-    specific_volume_ml_per_g = 0.0
-    for i, (fraction, density) in enumerate(zip(fractions, densities_g_per_ml, strict=True)):
-        if density is None:
-            raise CalculationError(("surfactants", i), "density_needed_for_volume", "a total given as a volume needs the density of every surfactant in the blend")
-        specific_volume_ml_per_g += fraction / density
-    return volume_ml / specific_volume_ml_per_g
+    """Mass of a blend of the given mass fractions that fills `volume_ml`
+    (volumes assumed additive). Raises CalculationError on a missing density."""
+    return mixture_mass_for_volume(volume_ml, fractions, densities_g_per_ml, ("surfactants",))

@@ -1,0 +1,56 @@
+"""Surfactant pairs that can reach a target HLB, ranked by a rule of thumb.
+
+The rule (common practice, no source): pairs of one fatty-chain family first
+(e.g. a sorbitan stearate with a polyoxyethylene sorbitan stearate), then
+balanced proportions (shares near 50 : 50, in steps of 10 %), then nonionic
+pairs before pairs with an ionic member. Anionic with cationic is never
+proposed; hydrocolloids (apparent HLB only) are left out by the caller."""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from itertools import combinations
+from typing import Sequence
+
+RULE = ("one fatty-chain family first; then balanced proportions (shares nearest 50:50, in 10 % steps); "
+        "then nonionic pairs before pairs with an ionic member; anionic with cationic never")
+
+
+@dataclass(frozen=True)
+class Surfactant:
+    id: str
+    hlb: float
+    ionic_class: str
+    fatty_chain: str | None
+
+
+@dataclass(frozen=True)
+class Pair:
+    low: Surfactant
+    high: Surfactant
+    share_high: float  # mass fraction of the higher-HLB surfactant
+
+    @property
+    def same_chain(self) -> bool:
+        return self.low.fatty_chain is not None and self.low.fatty_chain == self.high.fatty_chain
+
+    @property
+    def ionic_members(self) -> int:
+        return sum(s.ionic_class != "nonionic" for s in (self.low, self.high))
+
+    def rank_key(self) -> tuple:
+        imbalance = abs(self.share_high - 0.5)
+        return (not self.same_chain, round(imbalance * 10), self.ionic_members, imbalance, self.low.id, self.high.id)
+
+
+def candidate_pairs(target_hlb: float, surfactants: Sequence[Surfactant]) -> list[Pair]:
+    """Every pair with one HLB below and one above the target (or equal to
+    it), ranked by RULE."""
+    pairs = []
+    for a, b in combinations(surfactants, 2):
+        low, high = (a, b) if a.hlb <= b.hlb else (b, a)
+        if low.hlb == high.hlb or not low.hlb <= target_hlb <= high.hlb:
+            continue
+        if {low.ionic_class, high.ionic_class} == {"anionic", "cationic"}:
+            continue
+        pairs.append(Pair(low, high, (target_hlb - low.hlb) / (high.hlb - low.hlb)))
+    return sorted(pairs, key=Pair.rank_key)
