@@ -131,14 +131,12 @@ def report_data(registry: Registry, hlb_threshold: float, density_threshold: flo
     disagreements = []
     for ing in current:
         for prop in ing.values:
-            active = ing.active(prop)
+            # Densities at other temperatures differ by nature, not by dispute.
+            active = ing.comparable(prop)
             if len(active) < 2:
                 continue
             low, high = ing.span(prop)
             limit = density_threshold if prop == "density" else hlb_threshold
-            # Densities at different temperatures differ by nature, not by dispute.
-            if prop == "density" and len({r.temperature_c for r in active}) > 1:
-                continue
             if high - low > limit:
                 disagreements.append({"ingredient": ing.id, "property": prop, "low": low, "high": high,
                                       "sources": sorted({r.source_id for r in active})})

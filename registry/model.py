@@ -104,9 +104,19 @@ class Ingredient:
                 return record
         return records[0] if records else None
 
-    def span(self, prop: str) -> tuple[float, float] | None:
-        """The lowest and highest figure the active values give, or None."""
+    def comparable(self, prop: str) -> tuple[ValueRecord, ...]:
+        """The current values that speak of the same thing as the preferred
+        one: for a density, those at the preferred value's temperature (a
+        density at 20 degC does not dispute one at 25 degC)."""
         records = self.active(prop)
+        preferred = self.preferred(prop)
+        if prop == "density" and preferred is not None:
+            return tuple(r for r in records if r.temperature_c == preferred.temperature_c)
+        return records
+
+    def span(self, prop: str) -> tuple[float, float] | None:
+        """The lowest and highest figure the comparable values give, or None."""
+        records = self.comparable(prop)
         if not records:
             return None
         return min(r.low for r in records), max(r.high for r in records)

@@ -41,7 +41,7 @@ def _first_non_finite(value, path=()):
 
 
 def envelope(result: dict, inputs: dict, method: Method, values_used: list[dict], warnings: list[dict], registry: Registry,
-             strict: bool = False) -> dict:
+             strict: bool = False, extra_cautions: tuple[str, ...] = ()) -> dict:
     """The whole answer. A result that overflowed (extreme but valid inputs)
     is refused rather than written out as a wrong number."""
     bad = _first_non_finite(result)
@@ -53,7 +53,7 @@ def envelope(result: dict, inputs: dict, method: Method, values_used: list[dict]
         "method": method_block(method, registry),
         "values_used": tidy(values_used),
         "warnings": warnings + provenance_warnings(values_used),
-        "cautions": list(CAUTIONS),
+        "cautions": list(CAUTIONS) + list(extra_cautions),
         "strict": strict,
         "registry": registry_version(registry),
     }

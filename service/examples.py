@@ -61,4 +61,24 @@ EXAMPLES = {
             },
         },
     },
+    "createWorksheet": {
+        "lotion": {
+            "summary": "The hand lotion, 200 g, with its emulsifier pair at 5 %",
+            "value": {
+                "emulsion_type": "O/W",
+                "batch": {"value": 200, "unit": "g"},
+                "ingredients": [
+                    {"ingredient": "light-mineral-oil", "phase": "oil", "share": {"value": 10, "unit": "% w/w"}},
+                    {"ingredient": "isopropyl-myristate", "phase": "oil", "share": {"value": 8, "unit": "% w/w"}},
+                    {"ingredient": "cetyl-alcohol", "phase": "oil", "share": {"value": 2, "unit": "% w/w"}},
+                    {"ingredient": "glycerin", "phase": "aqueous", "share": {"value": 5, "unit": "% w/w"}},
+                    {"ingredient": "purified-water", "phase": "aqueous", "qs": True},
+                ],
+                "emulsifier": {"pair": [{"ingredient": "sorbitan-monostearate"}, {"ingredient": "polysorbate-60"}], "total_percent_w_w": 5},
+            },
+        },
+    },
+    "candidatePairs": {
+        "target": {"summary": "Nonionic pairs for HLB 11.6", "value": {"target_hlb": 11.6, "limit": 3}},
+    },
 }

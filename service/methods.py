@@ -59,6 +59,37 @@ MINIMUM_EMULSIFIER = Method(
     ),
 )
 
+CANDIDATES = Method(
+    name="Candidate surfactant pairs for a target HLB, ranked by a rule of thumb",
+    formula="every registry pair with HLB_L <= T <= HLB_H; share of H = (T - HLB_L) / (HLB_H - HLB_L); ranked: one fatty-chain "
+    "family first, then balanced proportions, then nonionic before ionic",
+    source_ids=("griffin-1949", "pasquali-2008"),
+    assumptions=(
+        ADDITIVITY,
+        "The ranking is a rule of thumb of formulation practice (no source): pairs of one fatty-chain family tend to pack "
+        "together at the interface; it does not predict stability.",
+        "Hydrocolloids (apparent HLB only) and anionic-with-cationic pairs are never proposed.",
+    ),
+)
+WORKSHEET = Method(
+    name="Batch worksheet: required HLB, emulsifier proportions, batch quantities and measurability",
+    formula="RHLB = Σ wᵢ·RHLBᵢ / Σ wᵢ over the oil phase; pair split x_H = (T − HLB_L)/(HLB_H − HLB_L); mass = % w/w × batch / 100, "
+    "rounded to the balance; q.s. = batch − Σ others; MWQ = sensitivity × 100 / acceptable % error",
+    source_ids=("griffin-1949", "pasquali-2008", "usp-1176", "graduate-practice"),
+    assumptions=(
+        ADDITIVITY,
+        "Masses are rounded to the balance's readability; the q.s. vehicle takes the rounding residue, so the masses add up to the batch.",
+        "A batch given as a volume is turned into a mass assuming the components' volumes add.",
+        "Oily and viscous liquids, solids and the q.s. vehicle are weighed; other liquids are measured in a graduate where the volume "
+        "suits one.",
+    ),
+)
+WORKSHEET_CAUTIONS = (
+    "Phases are usually heated to about 70 to 75 °C: hot oils and waxes cause burns; heat with care and consult each material's "
+    "safety data sheet for flammability and handling.",
+    "A second pharmacist should check every quantity against this worksheet before the batch is released.",
+)
+
 CAUTIONS = (
     "Decision aid for a qualified pharmacist: every figure must be checked by a pharmacist before use. "
     "Results are starting points for bench trials, never a promise of a stable emulsion.",

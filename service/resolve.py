@@ -72,7 +72,7 @@ def _registry_value(item: Resolved, record: ValueRecord, registry: Registry, uni
         "source": {"id": source.id, "citation": source.citation, "kind": source.kind},
         "locator": record.locator, "kind": record.kind, "status": record.status, "local": record.local,
         "recalled_from_memory": record.recalled_from_memory,
-        "sources_disagree": len(ing.active(record.property)) > 1, "note": record.note,
+        "sources_disagree": len(ing.comparable(record.property)) > 1, "note": record.note,
     }
 
 

@@ -14,7 +14,7 @@ from apispec import APISpec
 from apispec.ext.marshmallow import MarshmallowPlugin
 
 from service.examples import EXAMPLES
-from service.schemas import answers, calculations, ingredients, meta
+from service.schemas import answers, calculations, ingredients, meta, worksheets
 from service.schemas.fields import Boolean, Number, QueryNumber
 
 SPEC_PATH = Path(__file__).resolve().parent.parent / "openapi" / "openapi.json"
@@ -34,10 +34,12 @@ ERRORS = {
     "405": "Method not allowed on this path; the Allow header lists those that are.",
     "411": "A body was sent without Content-Length (chunked bodies are refused).",
     "413": "The body is too large.",
+    "406": "None of the media types the request accepts is offered (application/json, text/markdown, text/plain).",
     "415": "The body is not application/json.",
     "422": "The input broke a rule of the schema or of the calculation; each fault is named by pointer and rule.",
 }
 BODY_ERRORS = ("400", "405", "411", "413", "415", "422")
+SHEET_ERRORS = ("400", "405", "406", "411", "413", "415", "422")
 GET_ERRORS = ("405",)
 
 # (path, method, operationId, summary, description, request schema, query schema, answer schema, errors, tag)
@@ -59,6 +61,19 @@ OPERATIONS = [
      "An empirical estimate of the least emulsifier, in g per 100 g of emulsion, rounded up; optionally for a "
      "batch, rounded up to a weighable amount.",
      calculations.MinimumEmulsifierRequestSchema, None, answers.MinimumEmulsifierAnswerSchema, BODY_ERRORS, "calculations"),
+    ("/v1/worksheets", "post", "createWorksheet", "Batch worksheet",
+     "From a formula and a batch size to every quantity to weigh or measure: the oil phase's required HLB, the emulsifier "
+     "pair's proportions (given or proposed), each ingredient's % w/w, mass and volume rounded to the equipment, the q.s. "
+     "amount, and checks of measurability, HLB, ionic compatibility and emulsifier level. JSON, or the same worksheet as "
+     "text with Accept: text/markdown or text/plain.",
+     worksheets.WorksheetRequestSchema, None, worksheets.WorksheetAnswerSchema, SHEET_ERRORS, "worksheets"),
+    ("/v1/worksheets/rescale", "post", "rescaleWorksheet", "Rescale a worksheet",
+     "The worksheet for another batch size; every share keeps the % w/w it had in the original.",
+     worksheets.RescaleRequestSchema, None, worksheets.WorksheetAnswerSchema, SHEET_ERRORS, "worksheets"),
+    ("/v1/candidate-pairs", "post", "candidatePairs", "Candidate surfactant pairs",
+     "Registry pairs that reach a target HLB (or an oil phase's required HLB), ranked: one fatty-chain family first, "
+     "balanced proportions, nonionic before ionic; filterable by ionic class.",
+     worksheets.CandidateRequestSchema, None, worksheets.CandidateAnswerSchema, BODY_ERRORS, "worksheets"),
     ("/v1/ingredients", "get", "listIngredients", "List ingredients",
      "Ingredients in the registry, filtered by role, ionic class and HLB range, with their preferred figures.",
      None, ingredients.IngredientQuerySchema, ingredients.IngredientListSchema, ("405", "422"), "registry"),
@@ -91,6 +106,9 @@ def build_spec() -> dict:
             "operationId": op_id, "summary": summary, "description": description, "tags": [tag],
             "responses": {"200": {"description": "OK", "content": {"application/json": {"schema": out}}}},
         }
+        if "406" in errors:
+            text = {"schema": {"type": "string"}}
+            operation["responses"]["200"]["content"].update({"text/markdown": text, "text/plain": text})
         if body is not None:
             content = {"schema": body}
             if op_id in EXAMPLES:

@@ -5,6 +5,7 @@ from dataclasses import dataclass
 from typing import Sequence
 
 from service.core.errors import CalculationError
+from service.core.measure import round_to
 
 # A q.s. vehicle must be a real part of the formula, not a rounding residue.
 MIN_QS_PERCENT = 0.01
@@ -42,7 +43,7 @@ def mixture_mass_for_volume(volume_ml: float, fractions: Sequence[float], densit
 def rows_for_batch(percents: Sequence[float], batch_mass_g: float, qs_index: int, increment_g: float) -> list[BatchRow]:
     """Masses rounded to the balance increment; the q.s. vehicle takes the
     rounding residue, so the masses add up to the batch exactly."""
-    rows = [BatchRow(p, round(round(p / 100.0 * batch_mass_g / increment_g) * increment_g, 10)) for p in percents]
+    rows = [BatchRow(p, round_to(p / 100.0 * batch_mass_g, increment_g)) for p in percents]
     others = sum(r.mass_g for i, r in enumerate(rows) if i != qs_index)
     rows[qs_index] = BatchRow(percents[qs_index], round(batch_mass_g - others, 10))
     return rows

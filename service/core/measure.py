@@ -9,6 +9,7 @@ just above the volume; do not measure below about 20 % of its capacity; below
 1 mL use a pipette or syringe; weigh viscous or oily liquids."""
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from typing import Sequence
 
@@ -43,8 +44,10 @@ class Check:
 
 
 def round_to(value: float, increment: float) -> float:
-    """Nearest whole number of increments (what a balance or graduate reads)."""
-    return round(round(value / increment) * increment, 10)
+    """Nearest whole number of increments (what a balance or graduate reads),
+    halves rounded up as a balance reading is (not to even), with an allowance
+    for float error (0.025 / 0.01 is 2.4999999999999996)."""
+    return round(math.floor(value / increment + 0.5 + 1e-9) * increment, 10)
 
 
 def weighing_checks(mass_g: float, balance: Balance, solid: bool) -> list[Check]:

@@ -51,6 +51,28 @@ class Number(fields.Float):
         return number
 
 
+class Integer(fields.Integer):
+    """A JSON integer (2.0 counts, as JSON Schema says; 2.5, strings and
+    booleans do not), within bounds."""
+
+    default_error_messages = {"invalid": "Not a valid integer: a JSON integer is required."}
+
+    def __init__(self, *, minimum=None, maximum=None, **kwargs):
+        self.minimum, self.maximum = minimum, maximum
+        metadata = dict(kwargs.pop("metadata", {}))
+        metadata.update({k: v for k, v in {"minimum": minimum, "maximum": maximum}.items() if v is not None})
+        super().__init__(strict=False, metadata=metadata, **kwargs)
+
+    def _deserialize(self, value, attr, data, **kwargs):
+        if isinstance(value, bool) or not isinstance(value, (int, float)) or (isinstance(value, float) and not value.is_integer()):
+            raise self.make_error("invalid")
+        if self.minimum is not None and value < self.minimum:
+            raise ValidationError(f"Must be at least {self.minimum}.")
+        if self.maximum is not None and value > self.maximum:
+            raise ValidationError(f"Must be at most {self.maximum}.")
+        return int(value)
+
+
 class Boolean(fields.Boolean):
     """true or false only."""
 
@@ -91,7 +113,7 @@ def text(max_length: int = 120, **kwargs) -> fields.String:
     return fields.String(validate=validate.Length(min=1, max=max_length), **kwargs)
 
 
-__all__ = ["Boolean", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Number", "QueryNumber", "ingredient_id", "one_of", "text"]
+__all__ = ["Boolean", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Integer", "Number", "QueryNumber", "ingredient_id", "one_of", "text"]
 
 
 class QueryNumber(Number):

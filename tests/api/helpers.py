@@ -10,7 +10,7 @@ def inline(name, value, unit, **values):
 
 
 def problem_pointers(response):
-    assert response.status_code in (400, 404, 405, 411, 413, 415, 422), response.status_code
+    assert response.status_code in (400, 404, 405, 406, 411, 413, 415, 422), response.status_code
     assert response.headers["Content-Type"] == "application/problem+json"
     body = response.get_json()
     assert {"type", "title", "status", "detail"} <= set(body)

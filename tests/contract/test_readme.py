@@ -17,17 +17,18 @@ from urllib.parse import urlsplit
 import pytest
 
 README = Path(__file__).resolve().parents[2] / "README.md"
-PAIR = re.compile(r"```sh\n(curl [^\n]*)\n```\n\n```json\n(.*?)\n```", re.S)
+PAIR = re.compile(r"```sh\n(curl [^\n]*)\n```\n\n```(json|markdown)\n(.*?)\n```", re.S)
 
 
 def examples(text: str):
-    return [(m.group(1), m.group(2), (m.start(2), m.end(2))) for m in PAIR.finditer(text)]
+    """(command, kind, shown, where) for each example."""
+    return [(m.group(1), m.group(2), m.group(3), (m.start(3), m.end(3))) for m in PAIR.finditer(text)]
 
 
 def parse_curl(command: str):
     curl, _, jq = command.partition(" | jq ")
     args = shlex.split(curl)
-    method, data, url = "GET", None, None
+    method, data, url, headers = "GET", None, None, {}
     i = 1
     while i < len(args):
         a = args[i]
@@ -37,6 +38,8 @@ def parse_curl(command: str):
             data, i = args[i + 1], i + 2
             method = "POST" if method == "GET" else method
         elif a == "-H":
+            name, _, value = args[i + 1].partition(":")
+            headers[name.strip()] = value.strip()
             i += 2
         elif a.startswith("-"):
             i += 1
@@ -44,7 +47,7 @@ def parse_curl(command: str):
             url, i = a, i + 1
     parts = urlsplit(url)
     path = parts.path + (f"?{parts.query}" if parts.query else "")
-    return method, path, data, shlex.split(jq)[0] if jq else "."
+    return method, path, data, headers, shlex.split(jq)[0] if jq else "."
 
 
 def _path(value, expr: str):
@@ -53,18 +56,30 @@ def _path(value, expr: str):
     return value
 
 
+def _item(value, expr: str):
+    expr = expr.strip()
+    if expr.startswith("[") and expr.endswith("]"):
+        return [_path(value, part) for part in expr[1:-1].split(",")]
+    return _path(value, expr)
+
+
 def jq_lite(value, program: str):
-    """The few jq filters the README uses: `.a.b`, and `.a | map(.b)`."""
+    """The few jq filters the README uses: `.a.b`, `.a | map(.b)` and
+    `map([.b, .c])`."""
     for stage in program.split("|"):
         stage = stage.strip()
         m = re.fullmatch(r"map\((.*)\)", stage)
-        value = [_path(v, m.group(1)) for v in value] if m else _path(value, stage)
+        value = [_item(v, m.group(1)) for v in value] if m else _path(value, stage)
     return value
 
 
 def replay(client, command: str):
-    method, path, data, jq = parse_curl(command)
-    response = client.open(path, method=method, data=data, content_type="application/json" if data else None)
+    """The answer to the example's request: JSON through the jq filter, or text."""
+    method, path, data, headers, jq = parse_curl(command)
+    headers.pop("Content-Type", None)
+    response = client.open(path, method=method, data=data, headers=headers, content_type="application/json" if data else None)
+    if not response.mimetype.endswith("json"):
+        return response.get_data(as_text=True).rstrip("\n")
     return jq_lite(json.loads(response.get_data(as_text=True)), jq)
 
 
@@ -75,9 +90,10 @@ def test_the_readme_has_examples():
     assert len(CASES) >= 10
 
 
-@pytest.mark.parametrize(("command", "shown"), [(c, s) for c, s, _ in CASES], ids=[parse_curl(c)[1] for c, _, _ in CASES])
-def test_readme_example_gives_the_output_shown(client, command, shown):
-    assert replay(client, command) == json.loads(shown)
+@pytest.mark.parametrize(("command", "kind", "shown"), [(c, k, s) for c, k, s, _ in CASES], ids=[parse_curl(c)[1] for c, *_ in CASES])
+def test_readme_example_gives_the_output_shown(client, command, kind, shown):
+    got = replay(client, command)
+    assert got == (json.loads(shown) if kind == "json" else shown)
 
 
 def main() -> int:
@@ -85,8 +101,9 @@ def main() -> int:
 
     client = create_app().test_client()
     text = README.read_text(encoding="utf-8")
-    for command, _, (start, end) in reversed(examples(text)):
-        text = text[:start] + json.dumps(replay(client, command), indent=2, ensure_ascii=False) + text[end:]
+    for command, kind, _, (start, end) in reversed(examples(text)):
+        got = replay(client, command)
+        text = text[:start] + (json.dumps(got, indent=2, ensure_ascii=False) if kind == "json" else got) + text[end:]
     README.write_text(text, encoding="utf-8")
     return 0
 

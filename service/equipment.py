@@ -1,0 +1,61 @@
+"""The balance and graduates a worksheet is checked against, from the
+request or from the defaults."""
+from __future__ import annotations
+
+from service.core.measure import Balance, Graduate
+from service.lookups import DEFAULT_ERROR_PERCENT, DEFAULT_SENSITIVITY_G
+from service.resolve import invalid
+from service.units import to_canonical
+
+# A Class A balance commonly reads to 10 mg (common practice, no source).
+DEFAULT_READABILITY_G = 0.01
+# A common set of cylindrical graduates (common practice, no source).
+DEFAULT_GRADUATES_ML = (10.0, 25.0, 50.0, 100.0, 250.0, 500.0, 1000.0)
+# Graduates are commonly divided into about 50 parts (common practice, no source).
+DEFAULT_SUBDIVISIONS = 50.0
+
+
+# Plausible equipment, in g and mL: outside these a figure is a slip of unit.
+READABILITY_G = (1e-6, 100.0)
+SENSITIVITY_G = (1e-6, 100.0)
+CAPACITY_ML = (0.1, 100000.0)
+SUBDIVISION_ML = (1e-4, 1000.0)
+
+
+def _value(given: dict, path: tuple, bounds: tuple[float, float], unit: str) -> float:
+    value = to_canonical(given["value"], given["unit"])[1]
+    low, high = bounds
+    if not low <= value <= high:
+        raise invalid(path + ("value",), "plausible_equipment", f"{value:g} {unit} is outside {low:g} to {high:g} {unit}: check the unit")
+    return value
+
+
+def equipment_from(data: dict) -> tuple[Balance, tuple[Graduate, ...], list[str]]:
+    """Balance, graduates, and a note of each default assumed."""
+    defaults = []
+    balance = data.get("balance", {})
+    if "sensitivity" not in balance:
+        defaults.append("balance sensitivity 6 mg (Class A prescription balance, USP <1176>)")
+    if "acceptable_error_percent" not in balance:
+        defaults.append("acceptable weighing error 5 %")
+    if "readability" not in balance:
+        defaults.append("balance readability 10 mg")
+    b = Balance(
+        sensitivity_g=_value(balance["sensitivity"], ("equipment", "balance", "sensitivity"), SENSITIVITY_G, "g")
+        if "sensitivity" in balance else DEFAULT_SENSITIVITY_G,
+        acceptable_error_percent=balance.get("acceptable_error_percent", DEFAULT_ERROR_PERCENT),
+        readability_g=_value(balance["readability"], ("equipment", "balance", "readability"), READABILITY_G, "g")
+        if "readability" in balance else DEFAULT_READABILITY_G,
+    )
+    if "graduates" in data:
+        graduates = []
+        for i, g in enumerate(data["graduates"]):
+            path = ("equipment", "graduates", i)
+            capacity = _value(g["capacity"], path + ("capacity",), CAPACITY_ML, "mL")
+            subdivision = (_value(g["subdivision"], path + ("subdivision",), SUBDIVISION_ML, "mL")
+                           if "subdivision" in g else capacity / DEFAULT_SUBDIVISIONS)
+            graduates.append(Graduate(capacity, min(subdivision, capacity)))
+    else:
+        defaults.append("cylindrical graduates of 10, 25, 50, 100, 250, 500 and 1000 mL, each divided into 50")
+        graduates = [Graduate(c, c / DEFAULT_SUBDIVISIONS) for c in DEFAULT_GRADUATES_ML]
+    return b, tuple(sorted(graduates, key=lambda g: g.capacity_ml)), defaults

@@ -1,0 +1,79 @@
+"""The worksheet as text, for curl users and the batch record: Markdown, or
+plain text with the same content."""
+from __future__ import annotations
+
+import math
+
+
+def _num(value: float | None, digits: int = 4) -> str:
+    return "-" if value is None else f"{value:.{digits}g}"
+
+
+def _mass(value: float, unit: str, readability_g: float) -> str:
+    """A mass to the balance's readability when in grams."""
+    if unit != "g":
+        return _num(value, 6)
+    decimals = max(0, round(-math.log10(readability_g)))
+    return f"{value:.{decimals}f}"
+
+
+def _mark(ok: bool) -> str:
+    return "ok" if ok else "CHECK"
+
+
+def worksheet_text(answer: dict, markdown: bool) -> str:
+    r = answer["result"]
+    h1, h2 = ("# ", "## ") if markdown else ("", "")
+    lines = [f"{h1}Batch worksheet: {r['emulsion_type']} emulsion, {_num(r['batch_mass_g'], 6)} g"]
+    lines += [""] if markdown else ["=" * 72, ""]
+    lines += [f"Registry {answer['registry']['version']}" + ("; strict mode" if answer["strict"] else ""), ""]
+    oil, em = r["oil_phase"], r["emulsifier"]
+    lines += [f"{h2}Emulsifier system", "",
+              f"- Oil phase {oil['percent_w_w']:.2f} % w/w; required HLB {oil['required_hlb']:.1f} (sources range {oil['range']['low']:.1f} to {oil['range']['high']:.1f})",
+              f"- Surfactants: {', '.join(em['surfactants'])}" + (" (proposed by the service)" if em["proposed"] else ""),
+              f"- Blend HLB reached {em['hlb_reached']:.1f}" + (f" for a target of {em['target_hlb']:.1f}" if em["target_hlb"] is not None else ""),
+              f"- Emulsifier total {em['total_percent_w_w']:.2f} % w/w ({em['basis']})", ""]
+    mass_unit = r["rows"][0]["mass"]["unit"]
+    readability = r["equipment"]["balance"]["readability_g"]
+    lines += [f"{h2}Quantities", ""]
+    header = ["Ingredient", "Phase", "% w/w", f"Mass ({mass_unit})", "Volume", "How", "Checks"]
+    table = []
+    for row in r["rows"]:
+        m = row["measure"]
+        how = m["how"] + (f" ({_num(m['graduate_ml'])} mL graduate, {_num(m['volume_ml_rounded'])} mL)" if m["how"] == "graduate" else "")
+        volume = f"{_num(row['volume']['value'])} {row['volume']['unit']}" if row["volume"] else "-"
+        flags = ", ".join(f"{_mark(k['ok'])}: {k['code']}" for k in row["checks"]) or "-"
+        name = row["name"] + (" (q.s.)" if row["role"] == "qs" else "")
+        table.append([name, row["phase"], f"{row['percent_w_w']:.3f}", _mass(row["mass"]["value"], mass_unit, readability), volume, how, flags])
+    total = sum(row["mass"]["value"] for row in r["rows"])
+    table.append(["Total", "", f"{r['totals']['percent_w_w']:.3f}", _mass(total, mass_unit, readability), "", "", ""])
+    if markdown:
+        lines.append("| " + " | ".join(header) + " |")
+        lines.append("|" + "|".join("---" for _ in header) + "|")
+        lines += ["| " + " | ".join(cells) + " |" for cells in table]
+    else:
+        widths = [max(len(str(x)) for x in col) for col in zip(header, *table)]
+        lines.append("  ".join(h.ljust(w) for h, w in zip(header, widths)))
+        lines.append("  ".join("-" * w for w in widths))
+        lines += ["  ".join(str(c).ljust(w) for c, w in zip(cells, widths)) for cells in table]
+    lines += ["", f"{h2}Checks", ""]
+    lines += [f"- [{_mark(k['ok'])}] {k['message']}" for k in r["checks"]]
+    for row in r["rows"]:
+        lines += [f"- [{_mark(k['ok'])}] {row['name']}: {k['message']}" for k in row["checks"] if not k["ok"]]
+    b = r["equipment"]["balance"]
+    lines += ["", f"{h2}Equipment", "",
+              f"- Balance: sensitivity {b['sensitivity_g'] * 1000:g} mg, acceptable error {b['acceptable_error_percent']:g} %, "
+              f"readability {b['readability_g'] * 1000:g} mg; minimum weighable quantity {b['minimum_weighable_quantity_g'] * 1000:g} mg",
+              "- Graduates: " + ", ".join(f"{g['capacity_ml']:g} mL" for g in r["equipment"]["graduates"])]
+    lines += [f"- Assumed: {d}" for d in r["equipment"]["defaults_assumed"]]
+    lines += ["", f"{h2}Warnings", ""] + [f"- {w['message']}" for w in answer["warnings"]]
+    lines += ["", f"{h2}Values used", ""]
+    for v in answer["values_used"]:
+        src = v["source"]["id"] if v["source"] else "caller"
+        lines.append(f"- {v['ingredient'] or v['name']} {v['property']} {v['figure']:g}{' ' + v['unit'] if v['unit'] else ''}: {src}, {v['status']}"
+                     + (", recalled from memory" if v["recalled_from_memory"] else "") + (", site overlay" if v["local"] else ""))
+    lines += ["", f"{h2}Method", "", f"{answer['method']['name']}: {answer['method']['formula']}", ""]
+    lines += [f"- {s['citation']}" for s in answer["method"]["sources"]]
+    lines += ["", f"{h2}Cautions", ""] + [f"- {c}" for c in answer["cautions"]]
+    lines += ["", "Prepared by: ____________  Checked by: ____________  Date: ____________", ""]
+    return "\n".join(lines)

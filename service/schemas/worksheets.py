@@ -1,0 +1,254 @@
+"""Request and answer of the batch worksheet, the candidate pairs and the
+rescaling of a worksheet."""
+from __future__ import annotations
+
+from marshmallow import Schema, ValidationError, fields, validate, validates_schema
+
+from service.schemas.answers import AmountOutSchema, RangeSchema, answer
+from service.schemas.calculations import OilComponentSchema
+from service.schemas.common import EMULSION_TYPES, IONIC_CLASSES, AmountSchema, DensitySchema, IngredientRefSchema, MassSchema
+from service.schemas.fields import Boolean, Integer, Number, one_of
+from service.units import ABSOLUTE_UNITS, MASS_UNITS, VOLUME_UNITS
+
+PHASES = ("oil", "aqueous", "other")
+MAX_INGREDIENTS = 40
+
+
+class FormulaIngredientSchema(IngredientRefSchema):
+    phase = one_of(PHASES, required=True, metadata={"description": "oil, aqueous, or other (a preservative, an active ingredient)."})
+    share = fields.Nested(AmountSchema, metadata={"description": "% w/w of the formula, or an amount for the batch (a mass; a volume for a liquid with a known density). Not with qs."})
+    qs = Boolean(metadata={"description": "true for the one vehicle made up to the batch (q.s.)."})
+    counts_toward_rhlb = Boolean(metadata={"description": "For an oil-phase ingredient: false leaves it out of the required-HLB mean. Default true."})
+
+    @validates_schema
+    def _share_or_qs(self, data, **kwargs):
+        if ("share" in data) == bool(data.get("qs")):
+            raise ValidationError("Give exactly one of 'share' or 'qs': true.", field_name="share")
+
+
+class FixedEmulsifierSchema(IngredientRefSchema):
+    percent_w_w = Number(required=True, exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "% w/w of the formula."})
+
+
+class MinimumEstimateSchema(Schema):
+    margin_percent = Number(minimum=0, maximum=500, metadata={"description": "Added to the estimate, % of it. Default 0."})
+    surfactant_density = fields.Nested(DensitySchema, metadata={"description": "Density of the surfactant blend; default from the pair's densities."})
+    dispersed_phase_density = fields.Nested(DensitySchema, metadata={"description": "Default from the dispersed phase's densities."})
+
+
+class ProposeSchema(Schema):
+    ionic_classes = fields.List(one_of(IONIC_CLASSES), validate=validate.Length(min=1, max=4),
+                                metadata={"description": "Allowed ionic classes of the pair's members. Default nonionic only."})
+
+
+class EmulsifierSchema(Schema):
+    pair = fields.List(fields.Nested(IngredientRefSchema), validate=validate.Length(equal=2),
+                       metadata={"description": "The two surfactants whose proportions are solved for the oil phase's required HLB."})
+    propose = fields.Nested(ProposeSchema, metadata={"description": "Let the service choose the top-ranked candidate pair."})
+    fixed = fields.List(fields.Nested(FixedEmulsifierSchema), validate=validate.Length(max=10),
+                        metadata={"description": "Surfactants at fixed % w/w of the formula (alone, or beside the pair)."})
+    target_hlb = Number(minimum=0, maximum=60, metadata={"description": "Default: the oil phase's required HLB."})
+    total_percent_w_w = Number(exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "The whole emulsifier system, % w/w of the formula."})
+    minimum_estimate = fields.Nested(MinimumEstimateSchema, metadata={"description": "Size the emulsifier by the minimum estimate plus a margin."})
+
+    @validates_schema
+    def _consistent(self, data, **kwargs):
+        if "pair" in data and "propose" in data:
+            raise ValidationError("Give 'pair' or 'propose', not both.", field_name="propose")
+        solving = "pair" in data or "propose" in data
+        if not solving and not data.get("fixed"):
+            raise ValidationError("Give a 'pair', 'propose', or 'fixed' surfactants.", field_name="pair")
+        if solving and ("total_percent_w_w" in data) == ("minimum_estimate" in data):
+            raise ValidationError("With a pair, give exactly one of 'total_percent_w_w' or 'minimum_estimate'.", field_name="total_percent_w_w")
+        if not solving and ("total_percent_w_w" in data or "minimum_estimate" in data or "target_hlb" in data):
+            raise ValidationError("Without a pair, the fixed surfactants are the whole emulsifier system.", field_name="total_percent_w_w")
+
+
+VolumeSchema = Schema.from_dict({
+    "value": Number(required=True, exclusive_minimum=0, maximum=100000),
+    "unit": one_of(VOLUME_UNITS, required=True),
+}, name="Volume")
+BatchSizeSchema = Schema.from_dict({
+    "value": Number(required=True, exclusive_minimum=0, maximum=1000000),
+    "unit": one_of(ABSOLUTE_UNITS, required=True),
+}, name="BatchSize")
+
+
+class GraduateSchema(Schema):
+    capacity = fields.Nested(VolumeSchema, required=True)
+    subdivision = fields.Nested(VolumeSchema, metadata={"description": "Its smallest graduation; default capacity / 50."})
+
+
+class WorksheetBalanceSchema(Schema):
+    sensitivity = fields.Nested(MassSchema, metadata={"description": "Default 6 mg (Class A prescription balance)."})
+    acceptable_error_percent = Number(minimum=0.1, maximum=50, metadata={"description": "Default 5."})
+    readability = fields.Nested(MassSchema, metadata={"description": "What the balance reads to; masses are rounded to it. Default 10 mg."})
+
+
+class EquipmentSchema(Schema):
+    balance = fields.Nested(WorksheetBalanceSchema)
+    graduates = fields.List(fields.Nested(GraduateSchema), validate=validate.Length(max=20),
+                            metadata={"description": "Graduates at hand. Default cylindrical 10, 25, 50, 100, 250, 500 and 1000 mL."})
+
+
+class OutputUnitsSchema(Schema):
+    mass = one_of(MASS_UNITS, metadata={"description": "Default g."})
+    volume = one_of(VOLUME_UNITS, metadata={"description": "Default mL."})
+
+
+class WorksheetRequestSchema(Schema):
+    emulsion_type = one_of(EMULSION_TYPES, required=True)
+    batch = fields.Nested(BatchSizeSchema, required=True, metadata={"description": "Batch size, a mass or a volume."})
+    ingredients = fields.List(fields.Nested(FormulaIngredientSchema), required=True, validate=validate.Length(min=2, max=MAX_INGREDIENTS))
+    emulsifier = fields.Nested(EmulsifierSchema, required=True)
+    equipment = fields.Nested(EquipmentSchema)
+    output_units = fields.Nested(OutputUnitsSchema)
+    strict = Boolean(metadata={"description": "Refuse unverified registry values."})
+
+
+class RescaleRequestSchema(Schema):
+    worksheet = fields.Nested(WorksheetRequestSchema, required=True, metadata={"description": "The worksheet request to rescale (as sent, or as echoed in an answer's inputs)."})
+    batch = fields.Nested(BatchSizeSchema, required=True, metadata={"description": "The new batch size."})
+
+
+class CandidateRequestSchema(Schema):
+    target_hlb = Number(minimum=0, maximum=60)
+    emulsion_type = one_of(EMULSION_TYPES)
+    oil_phase = fields.List(fields.Nested(OilComponentSchema), validate=validate.Length(min=1, max=30),
+                            metadata={"description": "Instead of target_hlb: the oil phase whose required HLB is the target."})
+    ionic_classes = fields.List(one_of(IONIC_CLASSES), validate=validate.Length(min=1, max=4), metadata={"description": "Default nonionic only."})
+    limit = Integer(minimum=1, maximum=50, metadata={"description": "Default 10."})
+    strict = Boolean()
+
+    @validates_schema
+    def _target_or_oil(self, data, **kwargs):
+        if ("target_hlb" in data) == ("oil_phase" in data):
+            raise ValidationError("Give exactly one of 'target_hlb' or 'oil_phase'.", field_name="target_hlb")
+        if "oil_phase" in data and "emulsion_type" not in data:
+            raise ValidationError("An oil phase needs its emulsion_type.", field_name="emulsion_type")
+
+
+# Answers
+class CheckSchema(Schema):
+    code = fields.String(required=True)
+    ok = fields.Boolean(required=True)
+    message = fields.String(required=True)
+
+
+class GlobalCheckSchema(CheckSchema):
+    subject = fields.String(required=True, allow_none=True)
+
+
+class MeasureSchema(Schema):
+    how = fields.String(required=True, metadata={"description": "weigh, graduate, or pipette_or_syringe."})
+    graduate_ml = fields.Float(required=True, allow_none=True)
+    volume_ml_rounded = fields.Float(required=True, allow_none=True, metadata={"description": "Rounded to the graduate's subdivision."})
+    why = fields.String(required=True)
+
+
+class WorksheetRowSchema(Schema):
+    ingredient = fields.String(required=True, allow_none=True)
+    name = fields.String(required=True)
+    phase = fields.String(required=True)
+    role = fields.String(required=True, metadata={"description": "ingredient, emulsifier, or qs."})
+    physical_state = fields.String(required=True, allow_none=True)
+    percent_w_w = fields.Float(required=True)
+    mass_g = fields.Float(required=True, metadata={"description": "Rounded to the balance's readability; the q.s. vehicle takes the rounding residue."})
+    mass = fields.Nested(AmountOutSchema, required=True, metadata={"description": "The same mass in the unit asked."})
+    volume_ml = fields.Float(required=True, allow_none=True)
+    volume = fields.Nested(AmountOutSchema, required=True, allow_none=True)
+    measure = fields.Nested(MeasureSchema, required=True)
+    checks = fields.List(fields.Nested(CheckSchema), required=True)
+
+
+class EmulsifierOutSchema(Schema):
+    surfactants = fields.List(fields.String(), required=True)
+    proposed = fields.Boolean(required=True)
+    target_hlb = fields.Float(required=True, allow_none=True)
+    hlb_reached = fields.Float(required=True)
+    hlb_range = fields.Nested(RangeSchema, required=True)
+    total_percent_w_w = fields.Float(required=True)
+    basis = fields.String(required=True)
+    minimum_estimate_g_per_100g = fields.Float(required=True, allow_none=True)
+
+
+class OilPhaseOutSchema(Schema):
+    required_hlb = fields.Float(required=True)
+    range = fields.Nested(RangeSchema, required=True)
+    percent_w_w = fields.Float(required=True)
+
+
+class BalanceOutSchema(Schema):
+    sensitivity_g = fields.Float(required=True)
+    acceptable_error_percent = fields.Float(required=True)
+    readability_g = fields.Float(required=True)
+    minimum_weighable_quantity_g = fields.Float(required=True)
+
+
+class GraduateOutSchema(Schema):
+    capacity_ml = fields.Float(required=True)
+    subdivision_ml = fields.Float(required=True)
+
+
+class EquipmentOutSchema(Schema):
+    balance = fields.Nested(BalanceOutSchema, required=True)
+    graduates = fields.List(fields.Nested(GraduateOutSchema), required=True)
+    defaults_assumed = fields.List(fields.String(), required=True)
+
+
+class TotalsSchema(Schema):
+    percent_w_w = fields.Float(required=True)
+    mass_g = fields.Float(required=True)
+    batch_mass_g = fields.Float(required=True)
+
+
+class WorksheetResultSchema(Schema):
+    emulsion_type = fields.String(required=True)
+    batch_mass_g = fields.Float(required=True)
+    batch_volume_ml = fields.Float(required=True, allow_none=True)
+    oil_phase = fields.Nested(OilPhaseOutSchema, required=True)
+    emulsifier = fields.Nested(EmulsifierOutSchema, required=True)
+    rows = fields.List(fields.Nested(WorksheetRowSchema), required=True)
+    totals = fields.Nested(TotalsSchema, required=True)
+    equipment = fields.Nested(EquipmentOutSchema, required=True)
+    checks = fields.List(fields.Nested(GlobalCheckSchema), required=True)
+    rescaled_from = fields.Nested(AmountOutSchema, required=True, allow_none=True, metadata={"description": "The batch size of the worksheet this one was rescaled from."})
+
+
+class WorksheetInputsSchema(Schema):
+    request = fields.Dict(required=True, metadata={"description": "The request as loaded, to resend for a rescale or an audit."})
+
+
+class CandidateMemberSchema(Schema):
+    ingredient = fields.String(required=True)
+    name = fields.String(required=True)
+    hlb = fields.Float(required=True)
+    ionic_class = fields.String(required=True)
+    fatty_chain = fields.String(required=True, allow_none=True)
+    percent_of_blend = fields.Float(required=True)
+
+
+class CandidateSchema(Schema):
+    rank = fields.Integer(required=True)
+    low = fields.Nested(CandidateMemberSchema, required=True)
+    high = fields.Nested(CandidateMemberSchema, required=True)
+    same_fatty_chain = fields.Boolean(required=True)
+    ionic_members = fields.Integer(required=True)
+
+
+class CandidateResultSchema(Schema):
+    target_hlb = fields.Float(required=True)
+    rule = fields.String(required=True)
+    considered = fields.Integer(required=True)
+    candidates = fields.List(fields.Nested(CandidateSchema), required=True)
+
+
+class CandidateInputsSchema(Schema):
+    target_hlb = fields.Float(required=True, allow_none=True)
+    emulsion_type = fields.String(required=True, allow_none=True)
+    ionic_classes = fields.List(fields.String(), required=True)
+    limit = fields.Integer(required=True)
+
+
+WorksheetAnswerSchema = answer("WorksheetAnswer", WorksheetResultSchema, WorksheetInputsSchema)
+CandidateAnswerSchema = answer("CandidateAnswer", CandidateResultSchema, CandidateInputsSchema)

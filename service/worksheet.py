@@ -1,0 +1,378 @@
+"""The batch worksheet end to end: from a formula and a batch size to every
+quantity to weigh or measure, checked against the equipment. No Flask here."""
+from __future__ import annotations
+
+import copy
+from dataclasses import dataclass, field
+
+from registry import Registry
+from service import methods
+from service.answers import envelope, hlb_display
+from service.core import findings as core_findings
+from service.core.amounts import Amount
+from service.core.batch import mixture_mass_for_volume, qs_percent, rows_for_batch
+from service.core.blend import HlbValue
+from service.core.emulsifier import minimum_emulsifier
+from service.core.errors import CalculationError
+from service.core.findings import ceil_to
+from service.core.measure import Check, choose_graduate, round_to, weighing_checks
+from service.core.mixing import Term, weighted_mean
+from service.core.required_hlb import required_hlb
+from service.core.split import split_for_target
+from service.equipment import equipment_from
+from service.lookups import enforce_strict, hlb_ranges, required_value
+from service.notices import apparent_hlb_warning, finding_warnings
+from service.pairs import DEFAULT_IONIC, ranked
+from service.resolve import RHLB_PROPERTY, Resolved, checked_density, density_value, invalid, resolve
+from service.units import from_canonical, to_canonical
+
+CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}
+DISPERSED = {"O/W": "oil", "W/O": "aqueous"}
+# A blend of fixed surfactants within this of the required HLB is taken to
+# match it (common practice, no source).
+HLB_MATCH_TOLERANCE = 1.0
+
+
+@dataclass
+class Row:
+    item: Resolved
+    phase: str
+    role: str  # ingredient | emulsifier | qs
+    percent: float | None = None
+    path: tuple = ()
+
+
+@dataclass
+class Computed:
+    rows: list[Row]
+    batch_mass_g: float
+    batch_volume_ml: float | None
+    rhlb: object
+    emulsifier: dict
+    values_used: list = field(default_factory=list)
+    warnings: list = field(default_factory=list)
+    checks: list = field(default_factory=list)
+
+
+def _kind(given: dict) -> str:
+    return to_canonical(given["value"], given["unit"])[0]
+
+
+def _density(row: Row, registry: Registry, values_used: list, strict: bool = False) -> float | None:
+    """The row's density, recorded in values_used. In strict mode an
+    unverified one is not used for reporting volumes (the row is weighed)."""
+    found = density_value(row.item, registry)
+    if found is None or (strict and found[1]["origin"] == "registry" and found[1]["status"] == "unverified"):
+        return None
+    if not any(v["pointer"] == found[1]["pointer"] and v["property"] == "density" for v in values_used):
+        values_used.append(found[1])
+    return found[0]
+
+
+def _formula_rows(data: dict, registry: Registry, batch_mass_g: float | None, values_used: list) -> list[Row]:
+    """The formula's own rows with their % w/w (None for the q.s. vehicle)."""
+    rows = []
+    for i, x in enumerate(data["ingredients"]):
+        path = ("ingredients", i)
+        item = resolve(x, path, registry)
+        row = Row(item, x["phase"], "qs" if x.get("qs") else "ingredient", path=path)
+        if "share" in x:
+            kind, value = to_canonical(x["share"]["value"], x["share"]["unit"])
+            if kind == "volume" and item.physical_state in ("solid", "semisolid"):
+                raise invalid(path + ("share", "unit"), "solids_by_weight", f"{item.label} is a {item.physical_state}: give it as a mass or % w/w, never a volume")
+            if kind == "percent_w_w":
+                row.percent = value
+            elif kind == "parts":
+                raise invalid(path + ("share", "unit"), "share_basis", "a worksheet share is % w/w of the formula or an amount for the batch, not parts")
+            else:
+                if batch_mass_g is None:
+                    raise invalid(path + ("share", "unit"), "share_basis", "with a batch given as a volume, give every share as % w/w")
+                if kind == "volume":
+                    density = _density(row, registry, values_used)
+                    if density is None:
+                        raise invalid(path + ("share",), "density_needed_for_volume", f"no density is known for {item.label}: give it with 'density', or give a mass")
+                    value = value * density
+                row.percent = value / batch_mass_g * 100.0
+        rows.append(row)
+    qs = [r for r in rows if r.role == "qs"]
+    if len(qs) != 1:
+        raise invalid(("ingredients",), "one_qs_vehicle", f"exactly one ingredient must be the q.s. vehicle (found {len(qs)})")
+    return rows
+
+
+def _oil_phase(data: dict, rows: list[Row], registry: Registry, values_used: list):
+    prop = RHLB_PROPERTY[data["emulsion_type"]]
+    oil = [(r, data["ingredients"][r.path[1]]) for r in rows if r.phase == "oil"]
+    if not oil:
+        raise invalid(("ingredients",), "has_oil_phase", "an emulsion needs at least one oil-phase ingredient")
+    if any(r.role == "qs" for r, _ in oil):
+        raise invalid(oil[0][0].path, "qs_oil_unsupported", "an oily q.s. vehicle cannot weigh in the required HLB before it is computed: give the oil phase by % w/w")
+    counts = [x.get("counts_toward_rhlb", True) for _, x in oil]
+    values = [required_value(r.item, prop, "required_hlb", registry, values_used, f"{data['emulsion_type']} required HLB") if c else None
+              for (r, _), c in zip(oil, counts)]
+    try:
+        return required_hlb(values, [Amount("percent_w_w", r.percent) for r, _ in oil], [None] * len(oil), counts), sum(r.percent for r, _ in oil)
+    except CalculationError as exc:
+        # The core names the oil phase's own index; point at the ingredient.
+        where = oil[exc.path[1]][0].path if len(exc.path) > 1 else ("ingredients",)
+        raise invalid(where, exc.rule, exc.message) from None
+
+
+def _phase_density(rows: list[Row], registry: Registry, values_used: list, path: tuple) -> float:
+    """Density of a phase from its rows' densities, volumes assumed additive."""
+    total = sum(r.percent for r in rows)
+    densities = [_density(r, registry, values_used) for r in rows]
+    return mixture_mass_for_volume(1.0, [r.percent / total for r in rows], densities, path) / 1.0
+
+
+def _emulsifier(data: dict, rows: list[Row], rhlb, registry: Registry, strict: bool, values_used: list, warnings: list) -> tuple[list[Row], dict]:
+    spec = data["emulsifier"]
+    target = spec.get("target_hlb", rhlb.required_hlb.figure)
+    fixed = [resolve(f, ("emulsifier", "fixed", i), registry) for i, f in enumerate(spec.get("fixed", []))]
+    fixed_pct = [f["percent_w_w"] for f in spec.get("fixed", [])]
+    fixed_hlb = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in fixed]
+    proposed = False
+    if "propose" in spec:
+        ionic = tuple(spec["propose"].get("ionic_classes", DEFAULT_IONIC))
+        pairs = ranked(registry, target, ionic, strict)
+        if not pairs:
+            raise invalid(("emulsifier", "propose"), "candidate_pair_exists", f"no registry pair of the allowed ionic classes ({', '.join(ionic)}) reaches HLB {target:.1f}")
+        best = pairs[0]
+        pair_refs = [{"ingredient": best.low.id}, {"ingredient": best.high.id}]
+        proposed = True
+    else:
+        pair_refs = spec.get("pair")
+    pair = [resolve(p, ("emulsifier", "pair", i), registry) for i, p in enumerate(pair_refs or [])]
+    pair_hlb = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in pair]
+
+    estimate = None
+    if pair:
+        if "total_percent_w_w" in spec:
+            total = spec["total_percent_w_w"]
+            basis = "given as % w/w of the formula"
+        else:
+            total, estimate, basis = _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_used)
+        if total <= sum(fixed_pct):
+            raise invalid(("emulsifier",), "room_for_pair", f"the fixed surfactants take {sum(fixed_pct):g} % w/w, all of the {total:g} % emulsifier system")
+        try:
+            solved = split_for_target(target, pair_hlb, [(p / total, h) for p, h in zip(fixed_pct, fixed_hlb)])
+        except CalculationError as exc:
+            raise CalculationError(("emulsifier",) + exc.path, exc.rule, exc.message, **exc.extra) from None
+        fractions, mean = solved.fractions, solved.hlb
+        members = pair + fixed
+    else:
+        total = sum(fixed_pct)
+        basis = "the fixed surfactants"
+        members = fixed
+        mean = weighted_mean([Term(p, h.figure, h.low, h.high) for p, h in zip(fixed_pct, fixed_hlb)])
+        fractions = mean.fractions
+        target = None if "target_hlb" not in spec else target
+    new_rows = [Row(it, "emulsifier", "emulsifier", percent=f * total, path=it.path) for it, f in zip(members, fractions)]
+    info = {
+        "surfactants": [it.ingredient_id or it.name for it in members], "proposed": proposed,
+        "target_hlb": hlb_display(target) if target is not None else None, "hlb_reached": hlb_display(mean.figure),
+        "hlb_range": {"low": hlb_display(mean.low), "high": hlb_display(mean.high)}, "total_percent_w_w": total,
+        "basis": basis, "minimum_estimate_g_per_100g": estimate, "_mean": mean.figure,
+    }
+    if proposed:
+        warnings.append({"code": "pair_proposed", "subject": ", ".join(info["surfactants"][:2]),
+                         "message": f"the service chose the pair {info['surfactants'][0]} / {info['surfactants'][1]} by its ranking rule; "
+                                    "confirm the choice suits the product"})
+    return new_rows, info
+
+
+def _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_used):
+    """Emulsifier % w/w from the minimum estimate plus a margin. The estimate
+    depends on the continuous phase's share, which the emulsifier itself
+    takes from when the q.s. vehicle is in the continuous phase:
+    E = (1 + m)(A + 0.004 Q) with Q = C - E, solved for E."""
+    spec = data["emulsifier"]["minimum_estimate"]
+    etype = data["emulsion_type"]
+    margin = spec.get("margin_percent", 0.0) / 100.0
+    if "surfactant_density" in spec:
+        rho_s = checked_density(spec["surfactant_density"], ("emulsifier", "minimum_estimate", "surfactant_density"))
+    else:
+        x_high = (target - pair_hlb[0].figure) / (pair_hlb[1].figure - pair_hlb[0].figure)
+        pair_rows = [Row(it, "emulsifier", "emulsifier", percent=p, path=it.path) for it, p in zip(pair, (1 - x_high, x_high))]
+        try:
+            rho_s = _phase_density(pair_rows, registry, values_used, ("emulsifier", "pair"))
+        except CalculationError as exc:
+            raise invalid(("emulsifier", "minimum_estimate", "surfactant_density"), "density_needed",
+                          "the surfactants' densities are not all known: give surfactant_density") from exc
+    dispersed = [r for r in rows if r.phase == DISPERSED[etype]]
+    if "dispersed_phase_density" in spec:
+        rho_d = checked_density(spec["dispersed_phase_density"], ("emulsifier", "minimum_estimate", "dispersed_phase_density"))
+    else:
+        if any(r.percent is None for r in dispersed):
+            raise invalid(("emulsifier", "minimum_estimate", "dispersed_phase_density"), "density_needed",
+                          "the dispersed phase holds the q.s. vehicle: give dispersed_phase_density")
+        try:
+            rho_d = _phase_density(dispersed, registry, values_used, ("ingredients",))
+        except CalculationError as exc:
+            raise invalid(("emulsifier", "minimum_estimate", "dispersed_phase_density"), "density_needed",
+                          "the dispersed phase's densities are not all known: give dispersed_phase_density") from exc
+    continuous = CONTINUOUS[etype]
+    qs_row = next(r for r in rows if r.role == "qs")
+    # The estimate's constant part, at Q = 0 (RHLB domain checked by the core).
+    try:
+        a = minimum_emulsifier(rho_s, rho_d, rhlb.required_hlb.figure, 50.0).g_per_100g - 4.0 * 50.0 / 1000.0
+    except CalculationError as exc:
+        raise invalid(("ingredients",), exc.rule, f"the oil phase's required HLB is outside the estimate's domain: {exc.message}") from None
+    if qs_row.phase == continuous:
+        c = 100.0 - sum(r.percent for r in rows if r.role != "qs" and r.phase != continuous)
+        total = (1 + margin) * (a + 0.004 * c) / (1 + (1 + margin) * 0.004)
+        q = c - total
+    else:
+        q = sum(r.percent for r in rows if r.phase == continuous)
+        total = (1 + margin) * (a + 0.004 * q)
+    if not 0.0 < q < 100.0:
+        raise invalid(("ingredients",), "continuous_phase_share", f"the continuous phase would be {q:g} % of the emulsion")
+    estimate = a + 0.004 * q
+    total = ceil_to(total, 0.1)
+    return total, estimate, f"minimum estimate {estimate:.2f} g per 100 g plus a {margin * 100:g} % margin, rounded up to 0.1 %"
+
+
+def compute(data: dict, registry: Registry, strict: bool) -> Computed:
+    values_used: list[dict] = []
+    warnings: list[dict] = []
+    b_kind, b_value = to_canonical(data["batch"]["value"], data["batch"]["unit"])
+    batch_mass = b_value if b_kind == "mass" else None
+    rows = _formula_rows(data, registry, batch_mass, values_used)
+    rhlb, _ = _oil_phase(data, rows, registry, values_used)
+    emulsifier_rows, info = _emulsifier(data, rows, rhlb, registry, strict, values_used, warnings)
+    all_rows = list(rows)
+    # Emulsifier rows go after the oil phase they serve: before the first
+    # non-oil row, or at the end.
+    insert_at = max((i + 1 for i, r in enumerate(all_rows) if r.phase == "oil"), default=len(all_rows))
+    all_rows[insert_at:insert_at] = emulsifier_rows
+    qs_i = next(i for i, r in enumerate(all_rows) if r.role == "qs")
+    all_rows[qs_i].percent = qs_percent([r.percent for r in all_rows], qs_i, all_rows[qs_i].path)
+    batch_volume = None
+    if batch_mass is None:
+        batch_volume = b_value
+        densities = [_density(r, registry, values_used) for r in all_rows]
+        batch_mass = mixture_mass_for_volume(b_value, [r.percent / 100.0 for r in all_rows], densities, ("ingredients",))
+    enforce_strict(values_used, strict)
+    return Computed(all_rows, batch_mass, batch_volume, rhlb, info, values_used, warnings)
+
+
+def _measure(row: Row, mass_g: float, density: float | None, balance, graduates) -> tuple[dict, list[Check], float | None]:
+    state = row.item.physical_state
+    volume = mass_g / density if density else None
+    weigh = {"how": "weigh", "graduate_ml": None, "volume_ml_rounded": None}
+    solid = state in ("solid", "semisolid")
+    if solid:
+        return {**weigh, "why": f"a {state}: solids are weighed, never measured by volume"}, weighing_checks(mass_g, balance, True), volume
+    if row.role == "qs":
+        return {**weigh, "why": "q.s. vehicle: add to the batch mass in a tared vessel"}, [], volume
+    if state is None:
+        return {**weigh, "why": "physical state unknown: weigh it"}, weighing_checks(mass_g, balance, False), volume
+    oily = row.phase in ("oil", "emulsifier") or row.item.record is not None and row.item.record.viscous
+    if oily:
+        return {**weigh, "why": "an oily or viscous liquid: measured by weight"}, weighing_checks(mass_g, balance, False), volume
+    if volume is None:
+        return {**weigh, "why": "no density known, so it cannot be measured by volume"}, weighing_checks(mass_g, balance, False), volume
+    graduate, checks = choose_graduate(volume, graduates)
+    if graduate is not None:
+        return ({"how": "graduate", "graduate_ml": graduate.capacity_ml, "volume_ml_rounded": round_to(volume, graduate.subdivision_ml),
+                 "why": f"a liquid measured in the {graduate.capacity_ml:g} mL graduate"}, checks, volume)
+    if volume < 1.0:
+        return ({"how": "pipette_or_syringe", "graduate_ml": None, "volume_ml_rounded": round(volume, 3),
+                 "why": "under 1 mL: a pipette or a syringe"}, checks, volume)
+    return {**weigh, "why": "no graduate suits the volume: weigh it"}, checks + weighing_checks(mass_g, balance, False), volume
+
+
+def _display(value: float, token: str) -> dict:
+    return {"value": float(f"{from_canonical(value, token):.6g}"), "unit": token}
+
+
+def _global_checks(data, c: Computed, registry: Registry) -> list[dict]:
+    out = []
+    etype = data["emulsion_type"]
+    reached = c.emulsifier["_mean"]
+    finding = core_findings.usual_range_finding(reached, etype, hlb_ranges(registry))
+    low, high = hlb_ranges(registry)[core_findings.RANGE_FOR_EMULSION_TYPE[etype]]
+    out.append({"code": "hlb_suits_emulsion_type", "ok": finding is None, "subject": "emulsifier",
+                "message": finding.message if finding else f"blend HLB {reached:.1f} lies in the range usual for {etype} emulsifiers, {low:g} to {high:g}"})
+    diff = reached - c.rhlb.required_hlb.figure
+    out.append({"code": "blend_matches_required_hlb", "ok": abs(diff) <= HLB_MATCH_TOLERANCE, "subject": "emulsifier",
+                "message": f"blend HLB {reached:.1f} against the oil phase's required HLB {c.rhlb.required_hlb.figure:.1f} (difference {diff:+.1f})"})
+    emulsifiers = [r for r in c.rows if r.role == "emulsifier"]
+    classes = [r.item.ionic_class for r in emulsifiers] + [r.item.ionic_class for r in c.rows if r.role != "emulsifier" and r.item.ionic_class in ("anionic", "cationic")]
+    ionic = core_findings.ionic_findings(classes)
+    incompatible = [f for f in ionic if f.code == "ionic_incompatibility"]
+    out.append({"code": "ionic_compatibility", "ok": not incompatible, "subject": None,
+                "message": incompatible[0].message if incompatible else "no anionic and cationic ingredients are combined"})
+    levels = registry.emulsifier_levels
+    for r in emulsifiers:
+        level = levels.for_ingredient(r.item.ingredient_id) if levels and r.item.ingredient_id else None
+        if level is None:
+            continue
+        lo, hi = level.alone if len(emulsifiers) == 1 else level.with_partner
+        ok = lo <= r.percent <= hi
+        out.append({"code": "emulsifier_level", "ok": ok, "subject": r.item.ingredient_id,
+                    "message": f"{r.item.ingredient_id} at {r.percent:.2f} % w/w; usual for {level.family} {'alone' if len(emulsifiers) == 1 else 'with a partner'}: {lo:g} to {hi:g} % "
+                               f"({levels.source_id}, {'recalled from memory, ' if levels.recalled_from_memory else ''}{levels.status})"})
+    return out
+
+
+def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_from: dict | None = None) -> dict:
+    c = compute(data, registry, strict)
+    balance, graduates, defaults = equipment_from(data.get("equipment", {}))
+    units = data.get("output_units", {})
+    mass_unit, volume_unit = units.get("mass", "g"), units.get("volume", "mL")
+    qs_i = next(i for i, r in enumerate(c.rows) if r.role == "qs")
+    batch_rows = rows_for_batch([r.percent for r in c.rows], c.batch_mass_g, qs_i, balance.readability_g)
+    out_rows = []
+    for row, b in zip(c.rows, batch_rows):
+        liquid = row.item.physical_state in ("liquid", None)
+        density = _density(row, registry, c.values_used, strict) if liquid else None
+        measure, checks, volume = _measure(row, b.mass_g, density, balance, graduates)
+        out_rows.append({
+            "ingredient": row.item.ingredient_id, "name": row.item.name, "phase": row.phase, "role": row.role,
+            "physical_state": row.item.physical_state, "percent_w_w": b.percent_w_w, "mass_g": b.mass_g,
+            "mass": _display(b.mass_g, mass_unit), "volume_ml": volume,
+            "volume": _display(volume, volume_unit) if volume is not None else None,
+            "measure": measure, "checks": [{"code": k.code, "ok": k.ok, "message": k.message} for k in checks],
+        })
+    total_mass = sum(b.mass_g for b in batch_rows)
+    checks = _global_checks(data, c, registry)
+    checks.append({"code": "totals_add_up", "ok": abs(total_mass - c.batch_mass_g) < 1e-6, "subject": None,
+                   "message": f"the masses add up to {total_mass:.6g} g for a batch of {c.batch_mass_g:.6g} g"})
+    warnings = c.warnings + finding_warnings(core_findings.ionic_findings([r.item.ionic_class for r in c.rows if r.role == "emulsifier"]))
+    warnings += apparent_hlb_warning(r.item.label for r in c.rows if r.item.hlb_is_apparent)
+    warnings += [{"code": f"check_{k['code']}", "subject": k["subject"], "message": k["message"]} for k in checks if not k["ok"]]
+    for row in out_rows:
+        for k in row["checks"]:
+            if not k["ok"]:
+                warnings.append({"code": f"check_{k['code']}", "subject": row["ingredient"] or row["name"], "message": k["message"]})
+    emulsifier = {k: v for k, v in c.emulsifier.items() if not k.startswith("_")}
+    result = {
+        "emulsion_type": data["emulsion_type"], "batch_mass_g": c.batch_mass_g, "batch_volume_ml": c.batch_volume_ml,
+        "oil_phase": {"required_hlb": hlb_display(c.rhlb.required_hlb.figure),
+                      "range": {"low": hlb_display(c.rhlb.required_hlb.low), "high": hlb_display(c.rhlb.required_hlb.high)},
+                      "percent_w_w": sum(r.percent for r in c.rows if r.phase == "oil")},
+        "emulsifier": emulsifier, "rows": out_rows,
+        "totals": {"percent_w_w": sum(b.percent_w_w for b in batch_rows), "mass_g": total_mass, "batch_mass_g": c.batch_mass_g},
+        "equipment": {"balance": {"sensitivity_g": balance.sensitivity_g, "acceptable_error_percent": balance.acceptable_error_percent,
+                                  "readability_g": balance.readability_g, "minimum_weighable_quantity_g": balance.minimum_weighable_g},
+                      "graduates": [{"capacity_ml": g.capacity_ml, "subdivision_ml": g.subdivision_ml} for g in graduates],
+                      "defaults_assumed": defaults},
+        "checks": checks, "rescaled_from": rescaled_from,
+    }
+    return envelope(result, {"request": copy.deepcopy(data)}, methods.WORKSHEET, c.values_used, warnings, registry,
+                    strict=strict, extra_cautions=methods.WORKSHEET_CAUTIONS)
+
+
+def rescale(data: dict, registry: Registry, strict: bool = False) -> dict:
+    """The worksheet for another batch size: every share is carried over as
+    the % w/w it had in the original batch."""
+    original = data["worksheet"]
+    c = compute(original, registry, strict)
+    formula_rows = [r for r in c.rows if r.role != "emulsifier"]
+    scaled = copy.deepcopy(original)
+    for ingredient, row in zip(scaled["ingredients"], formula_rows):
+        if "share" in ingredient:
+            ingredient["share"] = {"value": row.percent, "unit": "% w/w"}
+    scaled["batch"] = dict(data["batch"])
+    return worksheet(scaled, registry, strict, rescaled_from=dict(original["batch"]))

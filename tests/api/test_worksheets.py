@@ -1,0 +1,198 @@
+"""The batch worksheet, its rescaling, its text form, and candidate pairs."""
+import copy
+
+import pytest
+
+from tests.api.helpers import problem_pointers
+
+SHEET = "/v1/worksheets"
+
+
+def share(value, unit="% w/w"):
+    return {"value": value, "unit": unit}
+
+
+# Hydrophilic Ointment, USP (monograph formula, from memory of the USP-NF; to be
+# checked against the current monograph): methylparaben 0.25 g, propylparaben
+# 0.15 g, sodium lauryl sulfate 10 g, propylene glycol 120 g, stearyl alcohol
+# 250 g, white petrolatum 250 g, purified water 370 g, to make about 1000 g.
+HYDROPHILIC_OINTMENT = {
+    "emulsion_type": "O/W",
+    "batch": {"value": 1000, "unit": "g"},
+    "ingredients": [
+        {"inline": {"name": "Methylparaben", "physical_state": "solid"}, "phase": "other", "share": share(0.25, "g")},
+        {"inline": {"name": "Propylparaben", "physical_state": "solid"}, "phase": "other", "share": share(0.15, "g")},
+        {"ingredient": "propylene-glycol", "phase": "aqueous", "share": share(120, "g")},
+        {"ingredient": "stearyl-alcohol", "phase": "oil", "share": share(250, "g")},
+        {"ingredient": "petrolatum", "phase": "oil", "share": share(250, "g")},
+        {"ingredient": "purified-water", "phase": "aqueous", "qs": True},
+    ],
+    "emulsifier": {"fixed": [{"ingredient": "sodium-lauryl-sulfate", "percent_w_w": 1.0}]},
+}
+
+LOTION = {
+    "emulsion_type": "O/W",
+    "batch": {"value": 200, "unit": "g"},
+    "ingredients": [
+        {"ingredient": "light-mineral-oil", "phase": "oil", "share": share(10)},
+        {"ingredient": "isopropyl-myristate", "phase": "oil", "share": share(8)},
+        {"ingredient": "cetyl-alcohol", "phase": "oil", "share": share(2)},
+        {"ingredient": "glycerin", "phase": "aqueous", "share": share(5)},
+        {"ingredient": "purified-water", "phase": "aqueous", "qs": True},
+    ],
+    "emulsifier": {"pair": [{"ingredient": "sorbitan-monostearate"}, {"ingredient": "polysorbate-60"}], "total_percent_w_w": 5},
+}
+
+
+def rows(body):
+    return {r["name"]: r for r in body["result"]["rows"]}
+
+
+def test_published_formulation_end_to_end(client):
+    r = client.post(SHEET, json=HYDROPHILIC_OINTMENT)
+    assert r.status_code == 200, r.get_data(as_text=True)
+    body = r.get_json()
+    got = {name: row["mass_g"] for name, row in rows(body).items()}
+    # The monograph's quantities for 1000 g; water is the q.s. (the monograph's
+    # 370 g makes "about" 1000 g: 1000.4 g in all).
+    assert got == pytest.approx({"Methylparaben": 0.25, "Propylparaben": 0.15, "Propylene glycol": 120.0, "Stearyl alcohol": 250.0,
+                                 "Petrolatum": 250.0, "Sodium lauryl sulfate": 10.0, "Purified water": 369.6})
+    assert body["result"]["totals"]["mass_g"] == pytest.approx(1000.0)
+    # Required HLB by Griffin's rule: (250 x 14 + 250 x 7.5) / 500 = 10.75 -> 10.8 shown.
+    assert body["result"]["oil_phase"]["required_hlb"] == 10.8
+    checks = {c["code"]: c["ok"] for c in body["result"]["checks"]}
+    # Sodium lauryl sulfate (HLB 40, Davies) is off the O/W range: flagged, not hidden.
+    assert checks["hlb_suits_emulsion_type"] is False and checks["totals_add_up"] is True
+    assert all(row["measure"]["how"] == "weigh" for row in body["result"]["rows"])
+
+
+def test_published_formulation_rescaled_flags_small_weighings(client):
+    r = client.post(SHEET + "/rescale", json={"worksheet": HYDROPHILIC_OINTMENT, "batch": {"value": 100, "unit": "g"}})
+    body = r.get_json()
+    got = rows(body)
+    assert got["Stearyl alcohol"]["mass_g"] == pytest.approx(25.0)
+    assert got["Methylparaben"]["mass_g"] == pytest.approx(0.03)  # 25 mg, to the 10 mg balance
+    # USP <1176>: 25 mg and 15 mg are below the 120 mg MWQ of a Class A balance: trituration.
+    for name in ("Methylparaben", "Propylparaben"):
+        [check] = got[name]["checks"]
+        assert not check["ok"] and "trituration" in check["message"]
+    assert body["result"]["rescaled_from"] == {"value": 1000, "unit": "g"}
+
+
+def test_lotion_worksheet(client, registry):
+    body = client.post(SHEET, json=LOTION).get_json()
+    result = body["result"]
+    assert result["oil_phase"]["required_hlb"] == 11.6
+    got = rows(body)
+    # Hand-computed: x(polysorbate 60) = (11.6 - 4.7) / (14.9 - 4.7) of 5 % of 200 g.
+    assert got["Polysorbate 60"]["mass_g"] == pytest.approx(round(6.9 / 10.2 * 10, 2))
+    assert got["Sorbitan monostearate"]["mass_g"] == pytest.approx(round(3.3 / 10.2 * 10, 2))
+    assert got["Purified water"]["role"] == "qs"
+    assert sum(r["mass_g"] for r in result["rows"]) == pytest.approx(200.0)
+    assert got["Glycerin"]["measure"]["how"] == "weigh"  # viscous: by weight
+    assert got["Cetyl alcohol"]["volume_ml"] is None      # solid: no volume
+    assert any("70 to 75" in c for c in body["cautions"])
+    assert body["result"]["emulsifier"]["hlb_reached"] == 11.6
+
+
+def test_liquids_in_graduates_and_units(client):
+    sheet = copy.deepcopy(LOTION)
+    sheet["ingredients"].insert(4, {"inline": {"name": "Rose water (demo)", "physical_state": "liquid", "density": {"value": 1.0, "unit": "g/mL"}},
+                                    "phase": "aqueous", "share": share(4)})
+    sheet["output_units"] = {"mass": "oz", "volume": "fl_oz"}
+    body = client.post(SHEET, json=sheet).get_json()
+    rose = rows(body)["Rose water (demo)"]
+    # 8 g at 1.0 g/mL = 8 mL: the 10 mL graduate (80 % of capacity), to 0.2 mL.
+    assert rose["measure"]["how"] == "graduate" and rose["measure"]["graduate_ml"] == 10.0
+    assert rose["measure"]["volume_ml_rounded"] == pytest.approx(8.0)
+    assert rose["mass"] == {"value": pytest.approx(8 / 28.349523125, rel=1e-5), "unit": "oz"}  # NIST HB44
+    assert rose["volume"]["unit"] == "fl_oz"
+
+
+def test_proposed_pair_and_minimum_estimate(client):
+    sheet = copy.deepcopy(LOTION)
+    sheet["emulsifier"] = {"propose": {}, "minimum_estimate": {"margin_percent": 50, "surfactant_density": {"value": 1.05, "unit": "g/mL"}}}
+    # Cetyl alcohol has no density in the registry, so the oil phase's is needed.
+    assert problem_pointers(client.post(SHEET, json=sheet)) == ["#/emulsifier/minimum_estimate/dispersed_phase_density"]
+    sheet["emulsifier"]["minimum_estimate"]["dispersed_phase_density"] = {"value": 0.85, "unit": "g/mL"}
+    body = client.post(SHEET, json=sheet).get_json()
+    em = body["result"]["emulsifier"]
+    assert em["proposed"] is True and len(em["surfactants"]) == 2
+    assert "pair_proposed" in {w["code"] for w in body["warnings"]}
+    # Hand-computed: A = 6 (1.05 / 0.85) / (10 - 5.8) = 1.7647; the continuous (aqueous) phase is
+    # 80 % less the emulsifier; E = 1.5 (A + 0.004 (80 - E)) -> E = 1.5 (A + 0.32) / 1.006 = 3.108,
+    # rounded up to 3.2 % w/w; the estimate itself A + 0.004 (80 - 3.108) = 2.072.
+    assert em["total_percent_w_w"] == pytest.approx(3.2)
+    assert em["minimum_estimate_g_per_100g"] == pytest.approx(2.072, abs=1e-3)
+    assert em["hlb_reached"] == 11.6
+
+
+def test_text_forms(client):
+    md = client.post(SHEET, json=LOTION, headers={"Accept": "text/markdown"})
+    assert md.status_code == 200 and md.mimetype == "text/markdown"
+    text = md.get_data(as_text=True)
+    assert text.startswith("# Batch worksheet: O/W emulsion, 200 g") and "| Purified water (q.s.) |" in text
+    assert "qualified pharmacist" in text and "Checked by:" in text
+    plain = client.post(SHEET, json=LOTION, headers={"Accept": "text/plain"})
+    assert plain.mimetype == "text/plain" and "Purified water (q.s.)" in plain.get_data(as_text=True)
+    refused = client.post(SHEET, json=LOTION, headers={"Accept": "application/xml"})
+    assert refused.status_code == 406
+    problem_pointers(refused)
+
+
+@pytest.mark.parametrize(("mutate", "pointer"), [
+    (lambda s: s["ingredients"][-1].pop("qs"), "#/ingredients/4/share"),
+    (lambda s: s["ingredients"][-1].update(share=share(5)), "#/ingredients/4/share"),
+    (lambda s: s["ingredients"][0].update(qs=True, share=None) or s["ingredients"][0].pop("share"), "#/ingredients"),
+    (lambda s: s["ingredients"][2].update(share=share(3, "mL")), "#/ingredients/2/share/unit"),
+    (lambda s: s["ingredients"][0].update(share=share(80)), "#/ingredients/4"),
+    (lambda s: s["ingredients"][0].update(share=share(95)), "#/ingredients"),
+    (lambda s: s["emulsifier"].update(total_percent_w_w=5, minimum_estimate={}), "#/emulsifier/total_percent_w_w"),
+    (lambda s: s["emulsifier"].update(pair=[{"ingredient": "polysorbate-80"}, {"ingredient": "polysorbate-20"}]), "#/emulsifier/target_hlb"),
+    (lambda s: s.update(ingredients=[i for i in s["ingredients"] if i.get("phase") != "oil"]), "#/ingredients"),
+    (lambda s: s["ingredients"][0].update(share=share(3, "parts")), "#/ingredients/0/share/unit"),
+    (lambda s: s.update(batch={"value": 200, "unit": "mL"}), "#/ingredients/2"),
+])
+def test_worksheet_refuses_bad_formulas(client, mutate, pointer):
+    sheet = copy.deepcopy(LOTION)
+    mutate(sheet)
+    r = client.post(SHEET, json=sheet)
+    assert r.status_code == 422, r.get_data(as_text=True)
+    assert pointer in problem_pointers(r)
+
+
+def test_batch_by_volume_with_all_densities(client):
+    sheet = {"emulsion_type": "O/W", "batch": {"value": 100, "unit": "mL"},
+             "ingredients": [{"ingredient": "light-mineral-oil", "phase": "oil", "share": share(20)},
+                             {"ingredient": "purified-water", "phase": "aqueous", "qs": True}],
+             "emulsifier": {"pair": [{"ingredient": "sorbitan-monooleate", "density": {"value": 0.99, "unit": "g/mL"}},
+                                     {"ingredient": "polysorbate-80"}], "total_percent_w_w": 5}}
+    body = client.post(SHEET, json=sheet).get_json()
+    assert body["result"]["batch_volume_ml"] == 100
+    total_volume = sum(r["volume_ml"] for r in body["result"]["rows"])
+    assert total_volume == pytest.approx(100.0, rel=2e-3)  # volumes assumed additive; masses rounded to 10 mg
+
+
+def test_candidate_pairs(client):
+    r = client.post("/v1/candidate-pairs", json={"target_hlb": 11.6, "limit": 5})
+    body = r.get_json()
+    assert r.status_code == 200 and len(body["result"]["candidates"]) == 5
+    top = body["result"]["candidates"][0]
+    assert top["same_fatty_chain"] and top["low"]["hlb"] <= 11.6 <= top["high"]["hlb"]
+    assert top["low"]["percent_of_blend"] + top["high"]["percent_of_blend"] == pytest.approx(100.0)
+    assert all(c["low"]["ionic_class"] == "nonionic" and c["high"]["ionic_class"] == "nonionic" for c in body["result"]["candidates"])
+
+
+def test_candidate_pairs_for_an_oil_phase_with_ionic_filter(client):
+    r = client.post("/v1/candidate-pairs", json={"emulsion_type": "O/W", "ionic_classes": ["nonionic", "anionic"], "limit": 50,
+                                                 "oil_phase": [{"ingredient": "mineral-oil", "amount": share(1, "g")}]})
+    body = r.get_json()
+    assert body["result"]["target_hlb"] == 10.0
+    assert any(c["ionic_members"] for c in body["result"]["candidates"]) or body["result"]["considered"] > 0
+    assert not any(c["low"]["ingredient"] == "acacia" or c["high"]["ingredient"] == "acacia" for c in body["result"]["candidates"])
+
+
+@pytest.mark.parametrize("body", [{}, {"target_hlb": 10, "oil_phase": []}, {"oil_phase": [{"ingredient": "mineral-oil", "amount": share(1, "g")}]},
+                                  {"target_hlb": 10, "limit": 0}, {"target_hlb": 10, "limit": 2.5}, {"target_hlb": 10, "ionic_classes": ["zwitterion"]}])
+def test_candidate_pairs_bad_input(client, body):
+    assert client.post("/v1/candidate-pairs", json=body).status_code == 422
