@@ -54,7 +54,7 @@ def equipment_from(data: dict) -> tuple[Balance, tuple[Graduate, ...], list[str]
             capacity = _value(g["capacity"], path + ("capacity",), CAPACITY_ML, "mL")
             subdivision = (_value(g["subdivision"], path + ("subdivision",), SUBDIVISION_ML, "mL")
                            if "subdivision" in g else capacity / DEFAULT_SUBDIVISIONS)
-            graduates.append(Graduate(capacity, min(subdivision, capacity)))
+            graduates.append(Graduate(capacity, min(subdivision, capacity), g.get("conical", False)))
     else:
         defaults.append("cylindrical graduates of 10, 25, 50, 100, 250, 500 and 1000 mL, each divided into 50")
         graduates = [Graduate(c, c / DEFAULT_SUBDIVISIONS) for c in DEFAULT_GRADUATES_ML]

@@ -356,7 +356,7 @@ def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_fro
         "totals": {"percent_w_w": sum(b.percent_w_w for b in batch_rows), "mass_g": total_mass, "batch_mass_g": c.batch_mass_g},
         "equipment": {"balance": {"sensitivity_g": balance.sensitivity_g, "acceptable_error_percent": balance.acceptable_error_percent,
                                   "readability_g": balance.readability_g, "minimum_weighable_quantity_g": balance.minimum_weighable_g},
-                      "graduates": [{"capacity_ml": g.capacity_ml, "subdivision_ml": g.subdivision_ml} for g in graduates],
+                      "graduates": [{"capacity_ml": g.capacity_ml, "subdivision_ml": g.subdivision_ml, "conical": g.conical} for g in graduates],
                       "defaults_assumed": defaults},
         "checks": checks, "rescaled_from": rescaled_from,
     }

@@ -34,6 +34,11 @@ class Balance:
 class Graduate:
     capacity_ml: float
     subdivision_ml: float
+    conical: bool = False
+
+
+# Conical graduates under this capacity are not used (Allen on USP <1176>).
+MIN_CONICAL_CAPACITY_ML = 25.0
 
 
 @dataclass(frozen=True)
@@ -65,7 +70,8 @@ def choose_graduate(volume_ml: float, graduates: Sequence[Graduate]) -> tuple[Gr
     None when the volume should not be measured in a graduate."""
     if volume_ml < MIN_GRADUATE_VOLUME_ML:
         return None, [Check("graduate_at_least_1_ml", False, f"{volume_ml:.3g} mL is below 1 mL: use a pipette or a syringe, or weigh it")]
-    fitting = sorted((g for g in graduates if g.capacity_ml >= volume_ml), key=lambda g: g.capacity_ml)
+    usable = [g for g in graduates if not (g.conical and g.capacity_ml < MIN_CONICAL_CAPACITY_ML)]
+    fitting = sorted((g for g in usable if g.capacity_ml >= volume_ml), key=lambda g: g.capacity_ml)
     if not fitting:
         return None, [Check("graduate_large_enough", False, f"no graduate at hand holds {volume_ml:g} mL: weigh it, or measure in portions")]
     graduate = fitting[0]

@@ -77,6 +77,7 @@ BatchSizeSchema = Schema.from_dict({
 class GraduateSchema(Schema):
     capacity = fields.Nested(VolumeSchema, required=True)
     subdivision = fields.Nested(VolumeSchema, metadata={"description": "Its smallest graduation; default capacity / 50."})
+    conical = Boolean(metadata={"description": "A conical graduate; one under 25 mL is not used. Default false (cylindrical)."})
 
 
 class WorksheetBalanceSchema(Schema):
@@ -188,6 +189,7 @@ class BalanceOutSchema(Schema):
 class GraduateOutSchema(Schema):
     capacity_ml = fields.Float(required=True)
     subdivision_ml = fields.Float(required=True)
+    conical = fields.Boolean(required=True)
 
 
 class EquipmentOutSchema(Schema):

@@ -95,3 +95,9 @@ def test_nonionic_before_ionic_when_otherwise_equal():
 
 def test_no_pair_reaches_an_extreme_target():
     assert candidate_pairs(30.0, [s("a", 4.0), s("b", 15.0)]) == []
+
+
+def test_small_conical_graduates_are_not_used():
+    # Allen (on USP <1176>): no conical graduates under 25 mL.
+    graduate, _ = choose_graduate(8.0, [Graduate(10.0, 0.2, conical=True), Graduate(25.0, 0.5, conical=True)])
+    assert graduate.capacity_ml == 25.0
