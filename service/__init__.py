@@ -16,7 +16,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     environment. A bad
     registry raises RegistryError here, so the service never starts on
     partial data."""
-    from service.api import calculations, ingredients, meta, worksheets
+    from service.api import calculations, estimates, ingredients, meta, worksheets
     from service.errors import register_error_handlers
     from service.jsonio import StrictJSONProvider
     from service.spec import build_spec, spec_json
@@ -38,7 +38,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     app.extensions["openapi_json"] = spec_json(spec)
 
     register_error_handlers(app)
-    for module in (calculations, worksheets, ingredients, meta):
+    for module in (calculations, worksheets, estimates, ingredients, meta):
         app.register_blueprint(module.bp)
 
     @app.after_request

@@ -59,3 +59,11 @@ def equipment_from(data: dict) -> tuple[Balance, tuple[Graduate, ...], list[str]
         defaults.append("cylindrical graduates of 10, 25, 50, 100, 250, 500 and 1000 mL, each divided into 50")
         graduates = [Graduate(c, c / DEFAULT_SUBDIVISIONS) for c in DEFAULT_GRADUATES_ML]
     return b, tuple(sorted(graduates, key=lambda g: g.capacity_ml)), defaults
+
+
+def equipment_out(balance: Balance, graduates, defaults: list[str]) -> dict:
+    """The equipment as answers report it."""
+    return {"balance": {"sensitivity_g": balance.sensitivity_g, "acceptable_error_percent": balance.acceptable_error_percent,
+                        "readability_g": balance.readability_g, "minimum_weighable_quantity_g": balance.minimum_weighable_g},
+            "graduates": [{"capacity_ml": g.capacity_ml, "subdivision_ml": g.subdivision_ml, "conical": g.conical} for g in graduates],
+            "defaults_assumed": defaults}

@@ -81,4 +81,21 @@ EXAMPLES = {
     "candidatePairs": {
         "target": {"summary": "Nonionic pairs for HLB 11.6", "value": {"target_hlb": 11.6, "limit": 3}},
     },
+    "hlbEstimate": {
+        "saponification": {"summary": "Griffin's 20(1 - S/A) for a polyol ester",
+                           "value": {"method": "griffin_saponification", "saponification_number": 161, "acid_number": 198}},
+        "davies": {"summary": "Davies' groups for an alkyl sulfate",
+                   "value": {"method": "davies", "groups": [{"group": "sulfate-sodium", "count": 1}, {"group": "methylene", "count": 12}]}},
+    },
+    "requiredHlbSeriesPlan": {
+        "screen": {"summary": "Eleven 50 g test emulsions of an unknown oil",
+                   "value": {"emulsion_type": "O/W", "pair": [{"ingredient": "sorbitan-monooleate"}, {"ingredient": "polysorbate-80"}],
+                             "oil_phase": [{"inline": {"name": "Unknown oil (demo)", "physical_state": "liquid"}, "amount": {"value": 1, "unit": "parts"}}],
+                             "oil_percent": 20, "emulsifier_percent": 5, "test_batch": {"value": 50, "unit": "g"}}},
+    },
+    "requiredHlbSeriesEvaluate": {
+        "scores": {"summary": "Stability scores read after a week",
+                   "value": {"tests": [{"hlb": 8, "score": 2}, {"hlb": 9, "score": 5}, {"hlb": 10, "score": 8}, {"hlb": 11, "score": 6}, {"hlb": 12, "score": 3}],
+                             "pair_hlb_range": {"low": 4.3, "high": 15.0}}},
+    },
 }

@@ -90,6 +90,45 @@ WORKSHEET_CAUTIONS = (
     "A second pharmacist should check every quantity against this worksheet before the batch is released.",
 )
 
+GRIFFIN_SCOPE = ("Griffin's composition formulas hold for nonionic surfactants only, and not for those containing propylene "
+                 "oxide, nitrogen or sulfur (Griffin 1954).")
+IDEALISED = ("Commercial surfactants are mixtures: an idealised structure does not reproduce their catalogue values (idealised "
+             "sorbitan monostearate gives about 6.8 against the published 4.7). Never recompute a catalogue value from an idealised formula.")
+GRIFFIN_MASS_FRACTION = Method(
+    name="Griffin's mass fraction of the hydrophile", formula="HLB = 20·Mh/M", source_ids=("griffin-1954",),
+    assumptions=(GRIFFIN_SCOPE, IDEALISED, "Molar masses from formulas use standard atomic weights (molmass)."),
+)
+GRIFFIN_SAPONIFICATION = Method(
+    name="Griffin's saponification-number formula for fatty-acid esters of polyols", formula="HLB = 20·(1 − S/A)",
+    source_ids=("griffin-1954",), assumptions=(GRIFFIN_SCOPE, IDEALISED),
+)
+GRIFFIN_OXYETHYLENE = Method(
+    name="Griffin's oxyethylene and polyol formula", formula="HLB = (E + P)/5; E/5 where oxyethylene is the only hydrophile",
+    source_ids=("griffin-1954",), assumptions=(GRIFFIN_SCOPE, IDEALISED),
+)
+DAVIES = Method(
+    name="Davies' group contributions", formula="HLB = 7 + Σ (group number × count); lipophilic group numbers are negative",
+    source_ids=("davies-1957", "guo-2006"),
+    assumptions=("Group numbers are the registry's, each listed with its provenance in values_used.",
+                 "The method badly underestimates the HLB of ethoxylated surfactants (Guo, Rong & Ying 2006).",
+                 "Ionic values (20 to 40) lie off Griffin's nonionic scale."),
+)
+SERIES_PLAN = Method(
+    name="Required-HLB test series: plan",
+    formula="test i: blend HLB_i from the pair's proportions; masses = % w/w × test batch, rounded to the balance",
+    source_ids=("griffin-1949", "usp-1176", "graduate-practice"),
+    assumptions=("Each test emulsion has the same oil phase, oil level and emulsifier level; only the pair's proportions change.",
+                 "Griffin used excess emulsifier in such screens, and the best ratio depends on the pair's chemical family: "
+                 "the required HLB found is that of this oil with this pair.", ADDITIVITY),
+)
+SERIES_EVALUATE = Method(
+    name="Required-HLB test series: reading the results",
+    formula="the best test's HLB, refined by the vertex of the parabola through it and its two neighbours",
+    source_ids=("griffin-1949",),
+    assumptions=("The refinement is a local quadratic fit (common practice, no source); it is only as good as the scores.",
+                 "The uncertainty is set by the test spacing: run the finer series to narrow it."),
+)
+
 CAUTIONS = (
     "Decision aid for a qualified pharmacist: every figure must be checked by a pharmacist before use. "
     "Results are starting points for bench trials, never a promise of a stable emulsion.",

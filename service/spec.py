@@ -14,7 +14,7 @@ from apispec import APISpec
 from apispec.ext.marshmallow import MarshmallowPlugin
 
 from service.examples import EXAMPLES
-from service.schemas import answers, calculations, ingredients, meta, worksheets
+from service.schemas import answers, calculations, estimates, ingredients, meta, worksheets
 from service.schemas.fields import Boolean, Number, QueryNumber
 
 SPEC_PATH = Path(__file__).resolve().parent.parent / "openapi" / "openapi.json"
@@ -74,6 +74,22 @@ OPERATIONS = [
      "Registry pairs that reach a target HLB (or an oil phase's required HLB), ranked: one fatty-chain family first, "
      "balanced proportions, nonionic before ionic; filterable by ionic class.",
      worksheets.CandidateRequestSchema, None, worksheets.CandidateAnswerSchema, BODY_ERRORS, "worksheets"),
+    ("/v1/hlb-estimates", "post", "hlbEstimate", "HLB estimated from composition",
+     "Griffin's formulas (20·Mh/M; 20(1 − S/A); (E + P)/5), for nonionics only, or Davies' group contributions from the "
+     "registry's group numbers. Molar masses may be given or computed from molecular formulas. Input outside a method's scope "
+     "is refused with the reason.",
+     estimates.HlbEstimateRequestSchema, None, estimates.HlbEstimateAnswerSchema, BODY_ERRORS, "estimates"),
+    ("/v1/required-hlb-series/plan", "post", "requiredHlbSeriesPlan", "Plan a required-HLB test series",
+     "Test emulsions of an oil with blends of one surfactant pair across an HLB range: each test's HLB and the quantities of "
+     "every component, checked for measurability.",
+     estimates.SeriesPlanRequestSchema, None, estimates.SeriesPlanAnswerSchema, BODY_ERRORS, "estimates"),
+    ("/v1/required-hlb-series/evaluate", "post", "requiredHlbSeriesEvaluate", "Read a required-HLB test series",
+     "From each test's score, pass/fail or droplet size: the oil's estimated required HLB (the best test, refined by a fit "
+     "through its neighbours), how well the tests pin it down, and a finer series to run next.",
+     estimates.SeriesEvaluateRequestSchema, None, estimates.SeriesEvaluateAnswerSchema, BODY_ERRORS, "estimates"),
+    ("/v1/davies-groups", "get", "listDaviesGroups", "Davies group numbers",
+     "The group numbers Davies' method uses, with their sources and status.",
+     None, None, estimates.DaviesGroupListSchema, GET_ERRORS, "registry"),
     ("/v1/ingredients", "get", "listIngredients", "List ingredients",
      "Ingredients in the registry, filtered by role, ionic class and HLB range, with their preferred figures.",
      None, ingredients.IngredientQuerySchema, ingredients.IngredientListSchema, ("405", "422"), "registry"),

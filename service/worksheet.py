@@ -19,7 +19,7 @@ from service.core.measure import Check, choose_graduate, round_to, weighing_chec
 from service.core.mixing import Term, weighted_mean
 from service.core.required_hlb import required_hlb
 from service.core.split import split_for_target
-from service.equipment import equipment_from
+from service.equipment import equipment_from, equipment_out
 from service.lookups import enforce_strict, hlb_ranges, required_value
 from service.notices import apparent_hlb_warning, finding_warnings
 from service.pairs import DEFAULT_IONIC, ranked
@@ -354,10 +354,7 @@ def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_fro
                       "percent_w_w": sum(r.percent for r in c.rows if r.phase == "oil")},
         "emulsifier": emulsifier, "rows": out_rows,
         "totals": {"percent_w_w": sum(b.percent_w_w for b in batch_rows), "mass_g": total_mass, "batch_mass_g": c.batch_mass_g},
-        "equipment": {"balance": {"sensitivity_g": balance.sensitivity_g, "acceptable_error_percent": balance.acceptable_error_percent,
-                                  "readability_g": balance.readability_g, "minimum_weighable_quantity_g": balance.minimum_weighable_g},
-                      "graduates": [{"capacity_ml": g.capacity_ml, "subdivision_ml": g.subdivision_ml, "conical": g.conical} for g in graduates],
-                      "defaults_assumed": defaults},
+        "equipment": equipment_out(balance, graduates, defaults),
         "checks": checks, "rescaled_from": rescaled_from,
     }
     return envelope(result, {"request": copy.deepcopy(data)}, methods.WORKSHEET, c.values_used, warnings, registry,

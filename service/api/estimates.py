@@ -1,0 +1,45 @@
+"""HLB estimates from composition, the required-HLB test series, and the
+Davies group table, under /v1."""
+from __future__ import annotations
+
+from flask import Blueprint
+
+from service import estimates, series
+from service.answers import registry_version
+from service.api.calculations import _registry, _strict
+from service.api.io import answer, load_body
+from service.schemas import estimates as schemas
+
+bp = Blueprint("estimates", __name__, url_prefix="/v1")
+
+EST_IN, EST_OUT = schemas.HlbEstimateRequestSchema(), schemas.HlbEstimateAnswerSchema()
+PLAN_IN, PLAN_OUT = schemas.SeriesPlanRequestSchema(), schemas.SeriesPlanAnswerSchema()
+EVAL_IN, EVAL_OUT = schemas.SeriesEvaluateRequestSchema(), schemas.SeriesEvaluateAnswerSchema()
+GROUPS_OUT = schemas.DaviesGroupListSchema()
+
+
+@bp.post("/hlb-estimates")
+def hlb_estimate():
+    data = load_body(EST_IN)
+    return answer(EST_OUT, estimates.estimate(data, _registry(), _strict(data)))
+
+
+@bp.post("/required-hlb-series/plan")
+def series_plan():
+    data = load_body(PLAN_IN)
+    return answer(PLAN_OUT, series.plan(data, _registry(), _strict(data)))
+
+
+@bp.post("/required-hlb-series/evaluate")
+def series_evaluate():
+    return answer(EVAL_OUT, series.evaluate(load_body(EVAL_IN), _registry()))
+
+
+@bp.get("/davies-groups")
+def davies_groups():
+    registry = _registry()
+    groups = [{"id": g.id, "formula": g.formula, "kind": g.kind, "number": g.number,
+               "values": [{"number": r.figure, "source": r.source_id, "status": r.status, "recalled_from_memory": r.recalled_from_memory,
+                           "preferred": r.preferred, "note": r.note} for r in g.values if not r.retired]}
+              for g in registry.davies_groups.values()]
+    return answer(GROUPS_OUT, {"count": len(groups), "groups": groups, "registry": registry_version(registry)})

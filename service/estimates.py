@@ -1,0 +1,111 @@
+"""HLB estimated from composition, end to end. Molar masses from formulas
+are computed here, at the edge, with molmass."""
+from __future__ import annotations
+
+import copy
+
+from molmass import Formula, FormulaError
+
+from registry import Registry
+from service import methods
+from service.answers import envelope, hlb_display, unrounded
+from service.core.estimates import (
+    Scope,
+    check_griffin_scope,
+    davies,
+    griffin_mass_fraction,
+    griffin_oxyethylene,
+    griffin_saponification,
+)
+from service.errors import pointer
+from service.lookups import enforce_strict
+from service.resolve import invalid
+
+MAX_MOLAR_MASS = 1e6
+
+SCOPES = {
+    "griffin_mass_fraction": methods.GRIFFIN_SCOPE,
+    "griffin_saponification": methods.GRIFFIN_SCOPE,
+    "griffin_oxyethylene": methods.GRIFFIN_SCOPE,
+    "davies": "Davies' group contributions apply to ionic and nonionic surfactants alike; ionic values lie off Griffin's scale.",
+}
+
+
+def _molar(part: dict, path: tuple) -> tuple[float, set[str]]:
+    """Molar mass in g/mol and the elements present (empty when only a molar
+    mass was given)."""
+    if "molar_mass_g_per_mol" in part:
+        return part["molar_mass_g_per_mol"], set()
+    try:
+        formula = Formula(part["formula"])
+        mass = formula.mass
+        elements = set(formula.composition().keys())
+    except FormulaError as exc:
+        raise invalid(path + ("formula",), "valid_formula", f"not a molecular formula: {str(exc).splitlines()[0]}") from None
+    if not 0 < mass <= MAX_MOLAR_MASS:
+        raise invalid(path + ("formula",), "plausible_molar_mass", f"gives {mass:g} g/mol, outside 0 to {MAX_MOLAR_MASS:g}")
+    return mass, elements
+
+
+def _group_values(data: dict, registry: Registry) -> tuple[list[dict], list[dict], list[tuple[float, float]]]:
+    contributions, values_used, terms = [], [], []
+    for i, g in enumerate(data["groups"]):
+        group = registry.davies_groups.get(g["group"])
+        if group is None:
+            raise invalid(("groups", i, "group"), "known_group", f"no Davies group '{g['group']}'; GET /v1/davies-groups lists them")
+        record = next((r for r in group.values if r.preferred and not r.retired), group.values[0])
+        source = registry.sources[record.source_id]
+        values_used.append({
+            "ingredient": None, "name": f"Davies group {group.id} ({group.formula})", "property": "davies_group_number",
+            "pointer": pointer(("groups", i)), "figure": record.figure, "low": min(r.low for r in group.values if not r.retired),
+            "high": max(r.high for r in group.values if not r.retired), "unit": None, "origin": "registry",
+            "source": {"id": source.id, "citation": source.citation, "kind": source.kind}, "locator": record.locator,
+            "kind": record.kind, "status": record.status, "local": False, "recalled_from_memory": record.recalled_from_memory,
+            "sources_disagree": len([r for r in group.values if not r.retired]) > 1, "note": record.note,
+        })
+        contributions.append({"group": group.id, "formula": group.formula, "number": record.figure, "count": g["count"],
+                              "contribution": record.figure * g["count"]})
+        terms.append((record.figure, g["count"]))
+    return contributions, values_used, terms
+
+
+def estimate(data: dict, registry: Registry, strict: bool = False) -> dict:
+    method = data["method"]
+    warnings, values_used = [], []
+    contributions = molar = None
+    weaknesses = [methods.IDEALISED] if method.startswith("griffin") else []
+    if method.startswith("griffin"):
+        elements: set[str] = set()
+        if method == "griffin_mass_fraction":
+            mh, eh = _molar(data["hydrophile"], ("hydrophile",))
+            m, em = _molar(data["molecule"], ("molecule",))
+            elements = eh | em
+            molar = {"hydrophile_g_per_mol": mh, "molecule_g_per_mol": m,
+                     "computed_from_formulas": "formula" in data["hydrophile"] or "formula" in data["molecule"]}
+        scope = Scope(data.get("ionic_class", "nonionic"), data.get("has_oxypropylene", False),
+                      data.get("contains_nitrogen", False) or "N" in elements, data.get("contains_sulfur", False) or "S" in elements)
+        check_griffin_scope(scope)
+        if method == "griffin_mass_fraction":
+            hlb = griffin_mass_fraction(molar["hydrophile_g_per_mol"], molar["molecule_g_per_mol"])
+            chosen = methods.GRIFFIN_MASS_FRACTION
+        elif method == "griffin_saponification":
+            hlb = griffin_saponification(data["saponification_number"], data["acid_number"])
+            chosen = methods.GRIFFIN_SAPONIFICATION
+        else:
+            hlb = griffin_oxyethylene(data["oxyethylene_percent"], data.get("polyol_percent", 0.0))
+            chosen = methods.GRIFFIN_OXYETHYLENE
+    else:
+        contributions, values_used, terms = _group_values(data, registry)
+        enforce_strict(values_used, strict)
+        hlb = davies(terms)
+        chosen = methods.DAVIES
+        weaknesses.append("Davies' method badly underestimates ethoxylated surfactants (Guo, Rong & Ying 2006).")
+        if any(c["group"] == "oxyethylene" for c in contributions):
+            warnings.append({"code": "davies_ethoxylate", "subject": "oxyethylene",
+                             "message": "this surfactant is ethoxylated: Davies' method badly underestimates its HLB; prefer Griffin's E/5 for a nonionic"})
+        if hlb > 20.0:
+            warnings.append({"code": "off_griffin_scale", "subject": None,
+                             "message": f"HLB {hlb:.1f} lies above Griffin's 0 to 20 scale, as ionic values do; mix it with nonionic HLBs only with care"})
+    result = {"method": method, "hlb": hlb_display(hlb), "hlb_unrounded": unrounded(hlb), "scope": SCOPES[method],
+              "weaknesses": weaknesses, "contributions": contributions, "molar_masses": molar}
+    return envelope(result, {"request": copy.deepcopy(data)}, chosen, values_used, warnings, registry, strict=strict)

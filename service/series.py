@@ -1,0 +1,95 @@
+"""The required-HLB test series: planning it, and reading its results."""
+from __future__ import annotations
+
+import copy
+
+from registry import Registry
+from service import methods
+from service.answers import envelope, hlb_display, unrounded
+from service.core.amounts import Amount, weigh
+from service.core.batch import rows_for_batch
+from service.core.errors import CalculationError
+from service.core.series import estimate_from_pass_fail, estimate_from_scores, finer_series, plan_points
+from service.equipment import equipment_from, equipment_out
+from service.lookups import enforce_strict, required_value
+from service.resolve import resolve
+from service.units import to_canonical
+from service.worksheet import Row, _density, _measure
+
+DEFAULT_PROPORTION_STEP_PERCENT = 10.0
+CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}
+
+
+def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
+    values_used: list[dict] = []
+    pair = [resolve(p, ("pair", i), registry) for i, p in enumerate(data["pair"])]
+    hlbs = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in pair]
+    if hlbs[0].figure > hlbs[1].figure:
+        pair, hlbs = pair[::-1], hlbs[::-1]
+    oil = [resolve(c, ("oil_phase", i), registry) for i, c in enumerate(data["oil_phase"])]
+    shares = weigh([Amount(*to_canonical(c["amount"]["value"], c["amount"]["unit"])) for c in data["oil_phase"]],
+                   [None] * len(oil), ("oil_phase",))
+    total_share = sum(s.weight for s in shares)
+    vehicle = resolve(data.get("vehicle", {"ingredient": "purified-water"}), ("vehicle",), registry)
+    enforce_strict(values_used, strict)
+    low, high = hlbs[0].figure, hlbs[1].figure
+    r = data.get("hlb_range", {"low": low, "high": high})
+    step_hlb = data.get("step_hlb")
+    proportion = None if step_hlb is not None else data.get("proportion_step_percent", DEFAULT_PROPORTION_STEP_PERCENT) / 100.0
+    points = plan_points(low, high, r["low"], r["high"], step_hlb, proportion)
+    balance, graduates, defaults = equipment_from(data.get("equipment", {}))
+    batch_g = to_canonical(data["test_batch"]["value"], data["test_batch"]["unit"])[1]
+    oil_pct, em_pct = data["oil_percent"], data["emulsifier_percent"]
+    if oil_pct + em_pct >= 100.0:
+        raise CalculationError(("emulsifier_percent",), "room_for_vehicle", "oil and emulsifier leave nothing for the vehicle")
+    tests = []
+    for n, point in enumerate(points, 1):
+        rows = [Row(it, "oil", "ingredient", percent=oil_pct * s.weight / total_share, path=it.path) for it, s in zip(oil, shares)]
+        for it, share in zip(pair, (1.0 - point.share_high, point.share_high)):
+            if share > 1e-12:  # a surfactant with no share is simply left out of that test
+                rows.append(Row(it, "emulsifier", "emulsifier", percent=em_pct * share, path=it.path))
+        rows.append(Row(vehicle, CONTINUOUS[data["emulsion_type"]], "qs", percent=100.0 - oil_pct - em_pct, path=("vehicle",)))
+        masses = rows_for_batch([row.percent for row in rows], batch_g, len(rows) - 1, balance.readability_g)
+        out_rows = []
+        for row, m in zip(rows, masses):
+            density = _density(row, registry, values_used, strict) if row.item.physical_state in ("liquid", None) else None
+            measure, checks, _ = _measure(row, m.mass_g, density, balance, graduates)
+            out_rows.append({"ingredient": row.item.ingredient_id, "name": row.item.name, "role": row.role, "percent_w_w": m.percent_w_w,
+                             "mass_g": m.mass_g, "measure": measure,
+                             "checks": [{"code": k.code, "ok": k.ok, "message": k.message} for k in checks]})
+        tests.append({"test": n, "hlb": round(point.hlb, 4), "percent_high_in_blend": point.share_high * 100.0, "rows": out_rows,
+                      "all_measurable": all(k["ok"] for row in out_rows for k in row["checks"])})
+    warnings = []
+    bad = [t["test"] for t in tests if not t["all_measurable"]]
+    if bad:
+        warnings.append({"code": "not_all_measurable", "subject": ", ".join(map(str, bad)),
+                         "message": f"test(s) {', '.join(map(str, bad))} hold an amount the equipment cannot measure as planned: "
+                                    "see each row's checks (a larger test batch, an aliquot, or a finer balance)"})
+    result = {"pair": [it.ingredient_id or it.name for it in pair], "pair_hlb": {"low": low, "high": high}, "tests": tests,
+              "test_batch_mass_g": batch_g,
+              "equipment": equipment_out(balance, graduates, defaults)}
+    return envelope(result, {"request": copy.deepcopy(data)}, methods.SERIES_PLAN, values_used, warnings, registry,
+                    strict=strict, extra_cautions=methods.WORKSHEET_CAUTIONS)
+
+
+def evaluate(data: dict, registry: Registry) -> dict:
+    tests = data["tests"]
+    hlbs = [t["hlb"] for t in tests]
+    if "mean_droplet_um" in tests[0]:
+        est = estimate_from_scores(hlbs, [-t["mean_droplet_um"] for t in tests], "droplet_size")
+    elif "score" in tests[0]:
+        sign = 1.0 if data.get("higher_score_is_better", True) else -1.0
+        est = estimate_from_scores(hlbs, [sign * t["score"] for t in tests], "score")
+    else:
+        est = estimate_from_pass_fail(hlbs, [t["passed"] for t in tests])
+    ordered = sorted(hlbs)
+    step = min(b - a for a, b in zip(ordered, ordered[1:]))
+    reach = data.get("pair_hlb_range", {"low": 0.0, "high": 60.0})
+    nxt = finer_series(est, step, reach["low"], reach["high"])
+    warnings = []
+    if not est.bracketed:
+        warnings.append({"code": "optimum_not_bracketed", "subject": None, "message": est.note})
+    result = {"required_hlb": hlb_display(est.estimate_hlb), "required_hlb_unrounded": unrounded(est.estimate_hlb),
+              "best_test_hlb": est.best_hlb, "basis": est.basis, "refined": est.refined, "bracketed": est.bracketed,
+              "uncertainty_hlb": unrounded(est.uncertainty_hlb), "note": est.note, "next_series_hlb": nxt}
+    return envelope(result, {"request": copy.deepcopy(data)}, methods.SERIES_EVALUATE, [], warnings, registry)
