@@ -105,8 +105,11 @@ def _oil_phase(data: dict, rows: list[Row], registry: Registry, values_used: lis
     oil = [(r, data["ingredients"][r.path[1]]) for r in rows if r.phase == "oil"]
     if not oil:
         raise invalid(("ingredients",), "has_oil_phase", "an emulsion needs at least one oil-phase ingredient")
-    if any(r.role == "qs" for r, _ in oil):
-        raise invalid(oil[0][0].path, "qs_oil_unsupported", "an oily q.s. vehicle cannot weigh in the required HLB before it is computed: give the oil phase by % w/w")
+    qs_oil = next((r for r, _ in oil if r.role == "qs"), None)
+    if qs_oil is not None and qs_oil.percent is None:
+        raise invalid(qs_oil.path + ("qs",), "qs_oil_needs_total",
+                      "an oily q.s. vehicle weighs in the required HLB, so its share must be known first: give the emulsifier "
+                      "as total_percent_w_w (or fixed surfactants), not as a minimum estimate")
     counts = [x.get("counts_toward_rhlb", True) for _, x in oil]
     values = [required_value(r.item, prop, "required_hlb", registry, values_used, f"{data['emulsion_type']} required HLB") if c else None
               for (r, _), c in zip(oil, counts)]
@@ -232,12 +235,30 @@ def _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_us
     return total, estimate, f"minimum estimate {estimate:.2f} g per 100 g plus a {margin * 100:g} % margin, rounded up to 0.1 %"
 
 
+def _oily_qs_share(data: dict, rows: list[Row]) -> None:
+    """An oily q.s. vehicle (a W/O base made up with its oil) is part of the
+    oil phase whose required HLB decides the emulsifier; its share is known
+    up front when the emulsifier's total is."""
+    qs = next(r for r in rows if r.role == "qs")
+    spec = data["emulsifier"]
+    if qs.phase != "oil":
+        return
+    if "pair" in spec or "propose" in spec:
+        if "total_percent_w_w" not in spec:
+            return  # refused in _oil_phase, with the reason
+        total = spec["total_percent_w_w"]
+    else:
+        total = sum(f["percent_w_w"] for f in spec.get("fixed", []))
+    qs.percent = qs_percent([r.percent for r in rows] + [total], rows.index(qs), qs.path)
+
+
 def compute(data: dict, registry: Registry, strict: bool) -> Computed:
     values_used: list[dict] = []
     warnings: list[dict] = []
     b_kind, b_value = to_canonical(data["batch"]["value"], data["batch"]["unit"])
     batch_mass = b_value if b_kind == "mass" else None
     rows = _formula_rows(data, registry, batch_mass, values_used)
+    _oily_qs_share(data, rows)
     rhlb, _ = _oil_phase(data, rows, registry, values_used)
     emulsifier_rows, info = _emulsifier(data, rows, rhlb, registry, strict, values_used, warnings)
     all_rows = list(rows)

@@ -196,3 +196,18 @@ def test_candidate_pairs_for_an_oil_phase_with_ionic_filter(client):
                                   {"target_hlb": 10, "limit": 0}, {"target_hlb": 10, "limit": 2.5}, {"target_hlb": 10, "ionic_classes": ["zwitterion"]}])
 def test_candidate_pairs_bad_input(client, body):
     assert client.post("/v1/candidate-pairs", json=body).status_code == 422
+
+
+def test_oily_qs_vehicle_for_a_w_o_base(client):
+    # Hand-computed: mineral oil q.s. = 100 - 5 - 40 - 4 = 51 %; required HLB (W/O) of
+    # white wax 5 and mineral oil 4-6 (5) is 5.0, span 4.1 to 5.9 ((5x5 + 51x4)/56 = 4.09).
+    sheet = {"emulsion_type": "W/O", "batch": {"value": 100, "unit": "g"},
+             "ingredients": [{"ingredient": "white-wax", "phase": "oil", "share": share(5)},
+                             {"ingredient": "purified-water", "phase": "aqueous", "share": share(40)},
+                             {"ingredient": "mineral-oil", "phase": "oil", "qs": True}],
+             "emulsifier": {"pair": [{"ingredient": "sorbitan-sesquioleate"}, {"ingredient": "polysorbate-80"}], "total_percent_w_w": 4}}
+    body = client.post(SHEET, json=sheet).get_json()
+    assert body["result"]["oil_phase"] == {"required_hlb": 5.0, "range": {"low": 4.1, "high": 5.9}, "percent_w_w": 56.0}
+    assert rows(body)["Mineral oil"]["mass_g"] == pytest.approx(51.0)
+    sheet["emulsifier"] = {"pair": sheet["emulsifier"]["pair"], "minimum_estimate": {}}
+    assert problem_pointers(client.post(SHEET, json=sheet)) == ["#/ingredients/2/qs"]
