@@ -1,0 +1,47 @@
+"""Benchmarks, run by hand (not collected by pytest): start-up costs and the
+in-process cost of one request to each calculation, as medians.
+
+    .venv/bin/python -m tests.benchmarks.bench_service
+
+Targets (from the stack notes, on 2 cores): building the app well under a
+second; a calculation request within a few times a no-op Flask request
+(about 0.13 ms), so that gunicorn's throughput is set by HTTP, not by us."""
+from __future__ import annotations
+
+import statistics
+import time
+
+from registry import load_registry
+from service import create_app
+from service.examples import EXAMPLES
+
+PATHS = {"blendHlb": "/v1/blends/hlb", "blendProportions": "/v1/blends/proportions", "oilPhaseRequiredHlb": "/v1/oil-phases/required-hlb",
+         "emulsifierMinimum": "/v1/emulsifier/minimum", "createWorksheet": "/v1/worksheets", "candidatePairs": "/v1/candidate-pairs",
+         "hlbEstimate": "/v1/hlb-estimates", "requiredHlbSeriesPlan": "/v1/required-hlb-series/plan",
+         "requiredHlbSeriesEvaluate": "/v1/required-hlb-series/evaluate"}
+
+
+def median_ms(fn, repeat: int) -> float:
+    times = []
+    for _ in range(repeat):
+        start = time.perf_counter()
+        fn()
+        times.append((time.perf_counter() - start) * 1000)
+    return statistics.median(times)
+
+
+def main() -> None:
+    print(f"load_registry: {median_ms(load_registry, 5):.1f} ms")
+    print(f"create_app: {median_ms(create_app, 3):.1f} ms")
+    client = create_app().test_client()
+    print(f"GET /healthz: {median_ms(lambda: client.get('/healthz'), 300):.3f} ms")
+    for op, examples in EXAMPLES.items():
+        for name, example in examples.items():
+            body = example["value"]
+            response = client.post(PATHS[op], json=body)
+            assert response.status_code == 200, (op, name, response.get_data(as_text=True))
+            print(f"POST {PATHS[op]} ({name}): {median_ms(lambda: client.post(PATHS[op], json=body), 200):.3f} ms")
+
+
+if __name__ == "__main__":
+    main()
