@@ -200,7 +200,7 @@ def test_candidate_pairs_bad_input(client, body):
 
 def test_oily_qs_vehicle_for_a_w_o_base(client):
     # Hand-computed: mineral oil q.s. = 100 - 5 - 40 - 4 = 51 %; required HLB (W/O) of
-    # white wax 5 and mineral oil 4-6 (5) is 5.0, span 4.1 to 5.9 ((5x5 + 51x4)/56 = 4.09).
+    # white wax 5 and mineral oil 4-6 (5) is 5.0, range 4.1 to 5.9 ((5x5 + 51x4)/56 = 4.09).
     sheet = {"emulsion_type": "W/O", "batch": {"value": 100, "unit": "g"},
              "ingredients": [{"ingredient": "white-wax", "phase": "oil", "share": share(5)},
                              {"ingredient": "purified-water", "phase": "aqueous", "share": share(40)},
