@@ -170,7 +170,8 @@ def _emulsifier(data: dict, rows: list[Row], rhlb, registry: Registry, strict: b
         mean = weighted_mean([Term(p, h.figure, h.low, h.high) for p, h in zip(fixed_pct, fixed_hlb)])
         fractions = mean.fractions
         target = None if "target_hlb" not in spec else target
-    new_rows = [Row(it, "emulsifier", "emulsifier", percent=f * total, path=it.path) for it, f in zip(members, fractions)]
+    # A pair member with no share (a target at the pair's end) is left out, not weighed as 0 g.
+    new_rows = [Row(it, "emulsifier", "emulsifier", percent=f * total, path=it.path) for it, f in zip(members, fractions) if f > 1e-12]
     info = {
         "surfactants": [it.ingredient_id or it.name for it in members], "proposed": proposed,
         "target_hlb": hlb_display(target) if target is not None else None, "hlb_reached": hlb_display(mean.figure),
@@ -272,6 +273,11 @@ def compute(data: dict, registry: Registry, strict: bool) -> Computed:
     if batch_mass is None:
         batch_volume = b_value
         densities = [_density(r, registry, values_used) for r in all_rows]
+        missing = next((r for r, d in zip(all_rows, densities) if d is None), None)
+        if missing is not None:
+            raise invalid(missing.path, "density_needed_for_volume",
+                          f"a batch given as a volume needs every component's density; none is known for {missing.item.label}: "
+                          "give it with 'density', or give the batch as a mass")
         batch_mass = mixture_mass_for_volume(b_value, [r.percent / 100.0 for r in all_rows], densities, ("ingredients",))
     enforce_strict(values_used, strict)
     return Computed(all_rows, batch_mass, batch_volume, rhlb, info, values_used, warnings)

@@ -211,3 +211,11 @@ def test_oily_qs_vehicle_for_a_w_o_base(client):
     assert rows(body)["Mineral oil"]["mass_g"] == pytest.approx(51.0)
     sheet["emulsifier"] = {"pair": sheet["emulsifier"]["pair"], "minimum_estimate": {}}
     assert problem_pointers(client.post(SHEET, json=sheet)) == ["#/ingredients/2/qs"]
+
+
+def test_a_pair_member_with_no_share_is_left_out(client):
+    sheet = copy.deepcopy(LOTION)
+    sheet["emulsifier"]["target_hlb"] = 14.9  # polysorbate 60 alone
+    body = client.post(SHEET, json=sheet).get_json()
+    names = [r["name"] for r in body["result"]["rows"]]
+    assert "Polysorbate 60" in names and "Sorbitan monostearate" not in names
