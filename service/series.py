@@ -72,8 +72,16 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
                     strict=strict, extra_cautions=methods.WORKSHEET_CAUTIONS)
 
 
-def evaluate(data: dict, registry: Registry) -> dict:
+def evaluate(data: dict, registry: Registry, strict: bool = False) -> dict:
     tests = data["tests"]
+    values_used: list[dict] = []
+    pair_hlbs = None
+    if "pair" in data:
+        pair = [resolve(p, ("pair", i), registry) for i, p in enumerate(data["pair"])]
+        pair_hlbs = sorted(required_value(it, "hlb", "hlb", registry, values_used, "HLB").figure for it in pair)
+        if pair_hlbs[0] == pair_hlbs[1]:
+            raise CalculationError(("pair",), "pair_hlbs_differ", "the pair's two HLBs must differ")
+        enforce_strict(values_used, strict)
     hlbs = [t["hlb"] for t in tests]
     if "mean_droplet_um" in tests[0]:
         est = estimate_from_scores(hlbs, [-t["mean_droplet_um"] for t in tests], "droplet_size")
@@ -84,12 +92,14 @@ def evaluate(data: dict, registry: Registry) -> dict:
         est = estimate_from_pass_fail(hlbs, [t["passed"] for t in tests])
     ordered = sorted(hlbs)
     step = min(b - a for a, b in zip(ordered, ordered[1:]))
-    reach = data.get("pair_hlb_range", {"low": 0.0, "high": 60.0})
+    reach = {"low": pair_hlbs[0], "high": pair_hlbs[1]} if pair_hlbs else data.get("pair_hlb_range", {"low": 0.0, "high": 60.0})
     nxt = finer_series(est, step, reach["low"], reach["high"])
+    shares = [(h - pair_hlbs[0]) / (pair_hlbs[1] - pair_hlbs[0]) * 100.0 for h in nxt] if pair_hlbs else None
     warnings = []
     if not est.bracketed:
         warnings.append({"code": "optimum_not_bracketed", "subject": None, "message": est.note})
     result = {"required_hlb": hlb_display(est.estimate_hlb), "required_hlb_unrounded": unrounded(est.estimate_hlb),
               "best_test_hlb": est.best_hlb, "basis": est.basis, "refined": est.refined, "bracketed": est.bracketed,
-              "uncertainty_hlb": unrounded(est.uncertainty_hlb), "note": est.note, "next_series_hlb": nxt}
-    return envelope(result, {"request": copy.deepcopy(data)}, methods.SERIES_EVALUATE, [], warnings, registry)
+              "uncertainty_hlb": unrounded(est.uncertainty_hlb), "note": est.note, "next_series_hlb": nxt,
+              "next_series_percent_high_in_blend": shares}
+    return envelope(result, {"request": copy.deepcopy(data)}, methods.SERIES_EVALUATE, values_used, warnings, registry, strict=strict)

@@ -32,7 +32,8 @@ def series_plan():
 
 @bp.post("/required-hlb-series/evaluate")
 def series_evaluate():
-    return answer(EVAL_OUT, series.evaluate(load_body(EVAL_IN), _registry()))
+    data = load_body(EVAL_IN)
+    return answer(EVAL_OUT, series.evaluate(data, _registry(), _strict(data)))
 
 
 @bp.get("/davies-groups")

@@ -159,11 +159,14 @@ class ObservationSchema(Schema):
 
 
 class SeriesEvaluateRequestSchema(Schema):
+    strict = Boolean()
     tests = fields.List(fields.Nested(ObservationSchema), required=True, validate=validate.Length(min=2, max=41))
     higher_score_is_better = Boolean(metadata={"description": "Default true."})
     pair_hlb_range = fields.Nested(Schema.from_dict({"low": Number(required=True, minimum=0, maximum=60),
                                                       "high": Number(required=True, minimum=0, maximum=60)}, name="PairReach"),
                                    metadata={"description": "What the pair reaches, to keep the next series within it."})
+    pair = fields.List(fields.Nested(IngredientRefSchema), validate=validate.Length(equal=2),
+                       metadata={"description": "The series' surfactant pair: the next series is then also given as the pair's proportions, within its reach."})
 
     @validates_schema
     def _same_observations(self, data, **kwargs):
@@ -177,6 +180,8 @@ class SeriesEvaluateRequestSchema(Schema):
         hlbs = [t["hlb"] for t in tests]
         if len(set(hlbs)) != len(hlbs):
             raise ValidationError("Each test must have its own HLB.", field_name="tests")
+        if "pair" in data and "pair_hlb_range" in data:
+            raise ValidationError("Give 'pair' or 'pair_hlb_range', not both: the pair sets its own reach.", field_name="pair_hlb_range")
 
 
 class SeriesEvaluateResultSchema(Schema):
@@ -189,6 +194,8 @@ class SeriesEvaluateResultSchema(Schema):
     uncertainty_hlb = fields.Float(required=True, metadata={"description": "About how far the true value may lie from the estimate, from the test spacing."})
     note = fields.String(required=True)
     next_series_hlb = fields.List(fields.Float(), required=True)
+    next_series_percent_high_in_blend = fields.List(fields.Float(), required=True, allow_none=True,
+                                                    metadata={"description": "With a pair: the higher-HLB member's share of the blend at each next test."})
 
 
 class DaviesGroupValueSchema(Schema):

@@ -109,3 +109,12 @@ def test_davies_group_table(client):
     groups = {g["id"]: g for g in body["groups"]}
     assert groups["sulfate-sodium"]["number"] == 38.7 and len(groups["sulfate-sodium"]["values"]) == 2
     assert groups["methylene"]["number"] == -0.475
+
+
+def test_series_evaluate_with_the_pair_gives_proportions(client):
+    obs = {"tests": [{"hlb": h, "score": s} for h, s in [(8, 2), (9, 5), (10, 8), (11, 6), (12, 3)]],
+           "pair": [{"ingredient": "sorbitan-monooleate"}, {"ingredient": "polysorbate-80"}]}
+    result = client.post("/v1/required-hlb-series/evaluate", json=obs).get_json()["result"]
+    # Hand-computed: HLB 10.1 from 4.3 and 15.0 is (10.1 - 4.3) / 10.7 = 54.2 % polysorbate 80.
+    assert result["next_series_hlb"][2] == 10.1
+    assert result["next_series_percent_high_in_blend"][2] == pytest.approx(5.8 / 10.7 * 100, abs=0.01)
