@@ -16,7 +16,7 @@ from typing import Sequence
 
 from registry.errors import RegistryError
 from registry.loader import DEFAULT_ROOT, check_tree, load_registry
-from registry.model import PROPERTIES, UNITS, Ingredient, Registry, ValueRecord
+from registry.model import PROPERTIES, UNITS, Registry, ValueRecord
 
 HLB_PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo")
 

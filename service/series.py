@@ -14,7 +14,7 @@ from service.equipment import equipment_from, equipment_out
 from service.lookups import enforce_strict, required_value
 from service.resolve import resolve
 from service.units import to_canonical
-from service.worksheet import Row, _density, _measure
+from service.rows import Row, measure_row, row_density
 
 DEFAULT_PROPORTION_STEP_PERCENT = 10.0
 CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}
@@ -52,8 +52,8 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
         masses = rows_for_batch([row.percent for row in rows], batch_g, len(rows) - 1, balance.readability_g)
         out_rows = []
         for row, m in zip(rows, masses):
-            density = _density(row, registry, values_used, strict) if row.item.physical_state in ("liquid", None) else None
-            measure, checks, _ = _measure(row, m.mass_g, density, balance, graduates)
+            density = row_density(row, registry, values_used, strict) if row.item.physical_state in ("liquid", None) else None
+            measure, checks, _ = measure_row(row, m.mass_g, density, balance, graduates)
             out_rows.append({"ingredient": row.item.ingredient_id, "name": row.item.name, "role": row.role, "percent_w_w": m.percent_w_w,
                              "mass_g": m.mass_g, "measure": measure,
                              "checks": [{"code": k.code, "ok": k.ok, "message": k.message} for k in checks]})

@@ -11,35 +11,19 @@ from service.answers import envelope, hlb_display
 from service.core import findings as core_findings
 from service.core.amounts import Amount
 from service.core.batch import mixture_mass_for_volume, qs_percent, rows_for_batch
-from service.core.blend import HlbValue
-from service.core.emulsifier import minimum_emulsifier
 from service.core.errors import CalculationError
-from service.core.findings import ceil_to
-from service.core.measure import Check, choose_graduate, round_to, weighing_checks
-from service.core.mixing import Term, weighted_mean
 from service.core.required_hlb import required_hlb
-from service.core.split import split_for_target
 from service.equipment import equipment_from, equipment_out
 from service.lookups import enforce_strict, hlb_ranges, required_value
 from service.notices import apparent_hlb_warning, finding_warnings
-from service.pairs import DEFAULT_IONIC, ranked
-from service.resolve import RHLB_PROPERTY, Resolved, checked_density, density_value, invalid, resolve
+from service.emulsifier_system import emulsifier_rows
+from service.resolve import RHLB_PROPERTY, invalid, resolve
+from service.rows import Row, measure_row, row_density
 from service.units import from_canonical, to_canonical
 
-CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}
-DISPERSED = {"O/W": "oil", "W/O": "aqueous"}
 # A blend of fixed surfactants within this of the required HLB is taken to
 # match it (common practice, no source).
 HLB_MATCH_TOLERANCE = 1.0
-
-
-@dataclass
-class Row:
-    item: Resolved
-    phase: str
-    role: str  # ingredient | emulsifier | qs
-    percent: float | None = None
-    path: tuple = ()
 
 
 @dataclass
@@ -52,21 +36,6 @@ class Computed:
     values_used: list = field(default_factory=list)
     warnings: list = field(default_factory=list)
     checks: list = field(default_factory=list)
-
-
-def _kind(given: dict) -> str:
-    return to_canonical(given["value"], given["unit"])[0]
-
-
-def _density(row: Row, registry: Registry, values_used: list, strict: bool = False) -> float | None:
-    """The row's density, recorded in values_used. In strict mode an
-    unverified one is not used for reporting volumes (the row is weighed)."""
-    found = density_value(row.item, registry)
-    if found is None or (strict and found[1]["origin"] == "registry" and found[1]["status"] == "unverified"):
-        return None
-    if not any(v["pointer"] == found[1]["pointer"] and v["property"] == "density" for v in values_used):
-        values_used.append(found[1])
-    return found[0]
 
 
 def _formula_rows(data: dict, registry: Registry, batch_mass_g: float | None, values_used: list) -> list[Row]:
@@ -88,7 +57,7 @@ def _formula_rows(data: dict, registry: Registry, batch_mass_g: float | None, va
                 if batch_mass_g is None:
                     raise invalid(path + ("share", "unit"), "share_basis", "with a batch given as a volume, give every share as % w/w")
                 if kind == "volume":
-                    density = _density(row, registry, values_used)
+                    density = row_density(row, registry, values_used)
                     if density is None:
                         raise invalid(path + ("share",), "density_needed_for_volume", f"no density is known for {item.label}: give it with 'density', or give a mass")
                     value = value * density
@@ -121,121 +90,6 @@ def _oil_phase(data: dict, rows: list[Row], registry: Registry, values_used: lis
         raise invalid(where, exc.rule, exc.message) from None
 
 
-def _phase_density(rows: list[Row], registry: Registry, values_used: list, path: tuple) -> float:
-    """Density of a phase from its rows' densities, volumes assumed additive."""
-    total = sum(r.percent for r in rows)
-    densities = [_density(r, registry, values_used) for r in rows]
-    return mixture_mass_for_volume(1.0, [r.percent / total for r in rows], densities, path) / 1.0
-
-
-def _emulsifier(data: dict, rows: list[Row], rhlb, registry: Registry, strict: bool, values_used: list, warnings: list) -> tuple[list[Row], dict]:
-    spec = data["emulsifier"]
-    target = spec.get("target_hlb", rhlb.required_hlb.figure)
-    fixed = [resolve(f, ("emulsifier", "fixed", i), registry) for i, f in enumerate(spec.get("fixed", []))]
-    fixed_pct = [f["percent_w_w"] for f in spec.get("fixed", [])]
-    fixed_hlb = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in fixed]
-    proposed = False
-    if "propose" in spec:
-        ionic = tuple(spec["propose"].get("ionic_classes", DEFAULT_IONIC))
-        pairs = ranked(registry, target, ionic, strict)
-        if not pairs:
-            raise invalid(("emulsifier", "propose"), "candidate_pair_exists", f"no registry pair of the allowed ionic classes ({', '.join(ionic)}) reaches HLB {target:.1f}")
-        best = pairs[0]
-        pair_refs = [{"ingredient": best.low.id}, {"ingredient": best.high.id}]
-        proposed = True
-    else:
-        pair_refs = spec.get("pair")
-    pair = [resolve(p, ("emulsifier", "pair", i), registry) for i, p in enumerate(pair_refs or [])]
-    pair_hlb = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in pair]
-
-    estimate = None
-    if pair:
-        if "total_percent_w_w" in spec:
-            total = spec["total_percent_w_w"]
-            basis = "given as % w/w of the formula"
-        else:
-            total, estimate, basis = _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_used)
-        if total <= sum(fixed_pct):
-            raise invalid(("emulsifier",), "room_for_pair", f"the fixed surfactants take {sum(fixed_pct):g} % w/w, all of the {total:g} % emulsifier system")
-        try:
-            solved = split_for_target(target, pair_hlb, [(p / total, h) for p, h in zip(fixed_pct, fixed_hlb)])
-        except CalculationError as exc:
-            raise CalculationError(("emulsifier",) + exc.path, exc.rule, exc.message, **exc.extra) from None
-        fractions, mean = solved.fractions, solved.hlb
-        members = pair + fixed
-    else:
-        total = sum(fixed_pct)
-        basis = "the fixed surfactants"
-        members = fixed
-        mean = weighted_mean([Term(p, h.figure, h.low, h.high) for p, h in zip(fixed_pct, fixed_hlb)])
-        fractions = mean.fractions
-        target = None if "target_hlb" not in spec else target
-    # A pair member with no share (a target at the pair's end) is left out, not weighed as 0 g.
-    new_rows = [Row(it, "emulsifier", "emulsifier", percent=f * total, path=it.path) for it, f in zip(members, fractions) if f > 1e-12]
-    info = {
-        "surfactants": [it.ingredient_id or it.name for it in members], "proposed": proposed,
-        "target_hlb": hlb_display(target) if target is not None else None, "hlb_reached": hlb_display(mean.figure),
-        "hlb_range": {"low": hlb_display(mean.low), "high": hlb_display(mean.high)}, "total_percent_w_w": total,
-        "basis": basis, "minimum_estimate_g_per_100g": estimate, "_mean": mean.figure,
-    }
-    if proposed:
-        warnings.append({"code": "pair_proposed", "subject": ", ".join(info["surfactants"][:2]),
-                         "message": f"the service chose the pair {info['surfactants'][0]} / {info['surfactants'][1]} by its ranking rule; "
-                                    "confirm the choice suits the product"})
-    return new_rows, info
-
-
-def _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_used):
-    """Emulsifier % w/w from the minimum estimate plus a margin. The estimate
-    depends on the continuous phase's share, which the emulsifier itself
-    takes from when the q.s. vehicle is in the continuous phase:
-    E = (1 + m)(A + 0.004 Q) with Q = C - E, solved for E."""
-    spec = data["emulsifier"]["minimum_estimate"]
-    etype = data["emulsion_type"]
-    margin = spec.get("margin_percent", 0.0) / 100.0
-    if "surfactant_density" in spec:
-        rho_s = checked_density(spec["surfactant_density"], ("emulsifier", "minimum_estimate", "surfactant_density"))
-    else:
-        x_high = (target - pair_hlb[0].figure) / (pair_hlb[1].figure - pair_hlb[0].figure)
-        pair_rows = [Row(it, "emulsifier", "emulsifier", percent=p, path=it.path) for it, p in zip(pair, (1 - x_high, x_high))]
-        try:
-            rho_s = _phase_density(pair_rows, registry, values_used, ("emulsifier", "pair"))
-        except CalculationError as exc:
-            raise invalid(("emulsifier", "minimum_estimate", "surfactant_density"), "density_needed",
-                          "the surfactants' densities are not all known: give surfactant_density") from exc
-    dispersed = [r for r in rows if r.phase == DISPERSED[etype]]
-    if "dispersed_phase_density" in spec:
-        rho_d = checked_density(spec["dispersed_phase_density"], ("emulsifier", "minimum_estimate", "dispersed_phase_density"))
-    else:
-        if any(r.percent is None for r in dispersed):
-            raise invalid(("emulsifier", "minimum_estimate", "dispersed_phase_density"), "density_needed",
-                          "the dispersed phase holds the q.s. vehicle: give dispersed_phase_density")
-        try:
-            rho_d = _phase_density(dispersed, registry, values_used, ("ingredients",))
-        except CalculationError as exc:
-            raise invalid(("emulsifier", "minimum_estimate", "dispersed_phase_density"), "density_needed",
-                          "the dispersed phase's densities are not all known: give dispersed_phase_density") from exc
-    continuous = CONTINUOUS[etype]
-    qs_row = next(r for r in rows if r.role == "qs")
-    # The estimate's constant part, at Q = 0 (RHLB domain checked by the core).
-    try:
-        a = minimum_emulsifier(rho_s, rho_d, rhlb.required_hlb.figure, 50.0).g_per_100g - 4.0 * 50.0 / 1000.0
-    except CalculationError as exc:
-        raise invalid(("ingredients",), exc.rule, f"the oil phase's required HLB is outside the estimate's domain: {exc.message}") from None
-    if qs_row.phase == continuous:
-        c = 100.0 - sum(r.percent for r in rows if r.role != "qs" and r.phase != continuous)
-        total = (1 + margin) * (a + 0.004 * c) / (1 + (1 + margin) * 0.004)
-        q = c - total
-    else:
-        q = sum(r.percent for r in rows if r.phase == continuous)
-        total = (1 + margin) * (a + 0.004 * q)
-    if not 0.0 < q < 100.0:
-        raise invalid(("ingredients",), "continuous_phase_share", f"the continuous phase would be {q:g} % of the emulsion")
-    estimate = a + 0.004 * q
-    total = ceil_to(total, 0.1)
-    return total, estimate, f"minimum estimate {estimate:.2f} g per 100 g plus a {margin * 100:g} % margin, rounded up to 0.1 %"
-
-
 def _oily_qs_share(data: dict, rows: list[Row]) -> None:
     """An oily q.s. vehicle (a W/O base made up with its oil) is part of the
     oil phase whose required HLB decides the emulsifier; its share is known
@@ -261,18 +115,18 @@ def compute(data: dict, registry: Registry, strict: bool) -> Computed:
     rows = _formula_rows(data, registry, batch_mass, values_used)
     _oily_qs_share(data, rows)
     rhlb, _ = _oil_phase(data, rows, registry, values_used)
-    emulsifier_rows, info = _emulsifier(data, rows, rhlb, registry, strict, values_used, warnings)
+    new_rows, info = emulsifier_rows(data, rows, rhlb, registry, strict, values_used, warnings)
     all_rows = list(rows)
     # Emulsifier rows go after the oil phase they serve: before the first
     # non-oil row, or at the end.
     insert_at = max((i + 1 for i, r in enumerate(all_rows) if r.phase == "oil"), default=len(all_rows))
-    all_rows[insert_at:insert_at] = emulsifier_rows
+    all_rows[insert_at:insert_at] = new_rows
     qs_i = next(i for i, r in enumerate(all_rows) if r.role == "qs")
     all_rows[qs_i].percent = qs_percent([r.percent for r in all_rows], qs_i, all_rows[qs_i].path)
     batch_volume = None
     if batch_mass is None:
         batch_volume = b_value
-        densities = [_density(r, registry, values_used) for r in all_rows]
+        densities = [row_density(r, registry, values_used) for r in all_rows]
         missing = next((r for r, d in zip(all_rows, densities) if d is None), None)
         if missing is not None:
             raise invalid(missing.path, "density_needed_for_volume",
@@ -281,32 +135,6 @@ def compute(data: dict, registry: Registry, strict: bool) -> Computed:
         batch_mass = mixture_mass_for_volume(b_value, [r.percent / 100.0 for r in all_rows], densities, ("ingredients",))
     enforce_strict(values_used, strict)
     return Computed(all_rows, batch_mass, batch_volume, rhlb, info, values_used, warnings)
-
-
-def _measure(row: Row, mass_g: float, density: float | None, balance, graduates) -> tuple[dict, list[Check], float | None]:
-    state = row.item.physical_state
-    volume = mass_g / density if density else None
-    weigh = {"how": "weigh", "graduate_ml": None, "volume_ml_rounded": None}
-    solid = state in ("solid", "semisolid")
-    if solid:
-        return {**weigh, "why": f"a {state}: solids are weighed, never measured by volume"}, weighing_checks(mass_g, balance, True), volume
-    if row.role == "qs":
-        return {**weigh, "why": "q.s. vehicle: add to the batch mass in a tared vessel"}, [], volume
-    if state is None:
-        return {**weigh, "why": "physical state unknown: weigh it"}, weighing_checks(mass_g, balance, False), volume
-    oily = row.phase in ("oil", "emulsifier") or row.item.record is not None and row.item.record.viscous
-    if oily:
-        return {**weigh, "why": "an oily or viscous liquid: measured by weight"}, weighing_checks(mass_g, balance, False), volume
-    if volume is None:
-        return {**weigh, "why": "no density known, so it cannot be measured by volume"}, weighing_checks(mass_g, balance, False), volume
-    graduate, checks = choose_graduate(volume, graduates)
-    if graduate is not None:
-        return ({"how": "graduate", "graduate_ml": graduate.capacity_ml, "volume_ml_rounded": round_to(volume, graduate.subdivision_ml),
-                 "why": f"a liquid measured in the {graduate.capacity_ml:g} mL graduate"}, checks, volume)
-    if volume < 1.0:
-        return ({"how": "pipette_or_syringe", "graduate_ml": None, "volume_ml_rounded": round(volume, 3),
-                 "why": "under 1 mL: a pipette or a syringe"}, checks, volume)
-    return {**weigh, "why": "no graduate suits the volume: weigh it"}, checks + weighing_checks(mass_g, balance, False), volume
 
 
 def _display(value: float, token: str) -> dict:
@@ -353,8 +181,8 @@ def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_fro
     out_rows = []
     for row, b in zip(c.rows, batch_rows):
         liquid = row.item.physical_state in ("liquid", None)
-        density = _density(row, registry, c.values_used, strict) if liquid else None
-        measure, checks, volume = _measure(row, b.mass_g, density, balance, graduates)
+        density = row_density(row, registry, c.values_used, strict) if liquid else None
+        measure, checks, volume = measure_row(row, b.mass_g, density, balance, graduates)
         out_rows.append({
             "ingredient": row.item.ingredient_id, "name": row.item.name, "phase": row.phase, "role": row.role,
             "physical_state": row.item.physical_state, "percent_w_w": b.percent_w_w, "mass_g": b.mass_g,

@@ -3,7 +3,7 @@ worksheet is JSON, or text when the request asks for text/markdown or
 text/plain."""
 from __future__ import annotations
 
-from flask import Blueprint, Response, current_app, request
+from flask import Blueprint, Response, request
 
 from service import pairs, worksheet
 from service.api.calculations import _registry, _strict

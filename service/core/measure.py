@@ -13,7 +13,7 @@ import math
 from dataclasses import dataclass
 from typing import Sequence
 
-from service.core.findings import Finding, minimum_weighable_quantity_g
+from service.core.findings import minimum_weighable_quantity_g
 
 MIN_FRACTION_OF_CAPACITY = 0.20
 MIN_GRADUATE_VOLUME_ML = 1.0
