@@ -219,3 +219,9 @@ def test_a_pair_member_with_no_share_is_left_out(client):
     body = client.post(SHEET, json=sheet).get_json()
     names = [r["name"] for r in body["result"]["rows"]]
     assert "Polysorbate 60" in names and "Sorbitan monostearate" not in names
+
+
+def test_strict_worksheet_refuses_unverified_values(client):
+    r = client.post(SHEET, json={**LOTION, "strict": True})
+    assert r.status_code == 422 and r.get_json()["title"] == "Unverified values refused"
+    assert "#/ingredients/0" in problem_pointers(r)

@@ -77,3 +77,21 @@ def test_bad_input_over_http(server):
     # A chunked body has no declared length, so a truncation could pass unseen: refused.
     status, headers, _ = request(server, "POST", "/v1/blends/hlb", b'{"a": 1}', headers={"Transfer-Encoding": "chunked"}, chunked=True)
     assert status == 411 and headers["Content-Type"] == "application/problem+json"
+
+
+def test_gunicorn_refuses_to_start_on_a_broken_registry(tmp_path):
+    import shutil
+
+    from registry import DEFAULT_ROOT
+
+    root = tmp_path / "data"
+    shutil.copytree(DEFAULT_ROOT, root)
+    path = root / "ingredients" / "olive-oil.toml"
+    text = path.read_text()
+    assert 'source = "martin"' in text
+    path.write_text(text.replace('source = "martin"', 'source = "nowhere"'))
+    env = {**os.environ, "EMULSION_BIND": f"127.0.0.1:{free_port()}", "EMULSION_WORKERS": "1", "EMULSION_REGISTRY_ROOT": str(root)}
+    done = subprocess.run([sys.executable, "-m", "gunicorn", "-c", "service/gunicorn_conf.py", "service.wsgi:app"],
+                          cwd=ROOT, env=env, capture_output=True, text=True, timeout=60)
+    assert done.returncode != 0
+    assert "data/ingredients/olive-oil.toml: values/required_hlb_ow/0/source: unknown source 'nowhere'" in done.stdout + done.stderr
