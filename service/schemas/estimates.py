@@ -100,12 +100,14 @@ class EchoSchema(Schema):
     request = fields.Dict(required=True)
 
 
+HlbBoundsSchema = Schema.from_dict({"low": Number(required=True, minimum=0, maximum=60),
+                                    "high": Number(required=True, minimum=0, maximum=60)}, name="HlbBounds")
+
+
 class SeriesPlanRequestSchema(Schema):
     emulsion_type = one_of(EMULSION_TYPES, required=True)
     pair = fields.List(fields.Nested(IngredientRefSchema), required=True, validate=validate.Length(equal=2))
-    hlb_range = fields.Nested(Schema.from_dict({"low": Number(required=True, minimum=0, maximum=60),
-                                                 "high": Number(required=True, minimum=0, maximum=60)}, name="HlbRangeIn"),
-                              metadata={"description": "Default: all the pair reaches."})
+    hlb_range = fields.Nested(HlbBoundsSchema, metadata={"description": "Default: all the pair reaches."})
     step_hlb = Number(minimum=0.05, maximum=20, metadata={"description": "HLB units between tests."})
     proportion_step_percent = Number(minimum=1, maximum=50, metadata={"description": "Step in the pair's proportions; default 10 (Griffin's 10 % steps)."})
     oil_phase = fields.List(fields.Nested(OilComponentSchema), required=True, validate=validate.Length(min=1, max=20),
@@ -162,9 +164,7 @@ class SeriesEvaluateRequestSchema(Schema):
     strict = Boolean()
     tests = fields.List(fields.Nested(ObservationSchema), required=True, validate=validate.Length(min=2, max=41))
     higher_score_is_better = Boolean(metadata={"description": "Default true."})
-    pair_hlb_range = fields.Nested(Schema.from_dict({"low": Number(required=True, minimum=0, maximum=60),
-                                                      "high": Number(required=True, minimum=0, maximum=60)}, name="PairReach"),
-                                   metadata={"description": "What the pair reaches, to keep the next series within it."})
+    pair_hlb_range = fields.Nested(HlbBoundsSchema, metadata={"description": "What the pair reaches, to keep the next series within it."})
     pair = fields.List(fields.Nested(IngredientRefSchema), validate=validate.Length(equal=2),
                        metadata={"description": "The series' surfactant pair: the next series is then also given as the pair's proportions, within its reach."})
 
