@@ -1,9 +1,11 @@
-"""The data steward's command line: check, list, show, report and diff a
-registry tree. Every command reads the shipped registry unless --root names
+"""The data steward's command line: check, lock, list, show, report and diff
+a registry tree. Every command reads the shipped registry unless --root names
 another tree (a working copy); --overlay adds a site overlay.
 
-Exit status: 0 when all is well; 1 when a check fails, an id is unknown, or a
-diff finds a record deleted rather than retired; 2 for usage errors."""
+Exit status: 0 when all is well; 1 when a check fails (the review rule
+included), an id is unknown, lock finds the review rule broken (and writes
+nothing), or a diff finds a record deleted rather than retired; 2 for usage
+errors."""
 from __future__ import annotations
 
 import argparse
@@ -14,6 +16,7 @@ from collections import Counter
 from pathlib import Path
 from typing import Sequence
 
+from registry import review
 from registry.diff import diff_lines
 from registry.errors import RegistryError
 from registry.loader import DEFAULT_ROOT, check_tree, load_registry
@@ -30,11 +33,16 @@ def _err(text: str) -> None:
     sys.stderr.write(text + "\n")
 
 
+def _faults(errors: list[RegistryError]) -> None:
+    for exc in errors:
+        _err(f"error: {exc.file}: {exc.field}: {exc.message}")
+
+
 def _load(args) -> Registry | None:
     try:
         return load_registry(args.root, args.overlay)
     except RegistryError as exc:
-        _err(f"error: {exc.file}: {exc.field}: {exc.message}")
+        _faults([exc])
         return None
 
 
@@ -47,14 +55,31 @@ def _fmt(record: ValueRecord | None) -> str:
 
 def cmd_check(args) -> int:
     registry, errors = check_tree(args.root, args.overlay)
-    for exc in errors:
-        _err(f"error: {exc.file}: {exc.field}: {exc.message}")
+    if registry is not None:
+        broken, stale = review.compare(registry, args.root)
+        errors = broken + stale
+    _faults(errors)
     if errors:
         _err(f"{len(errors)} error(s); the registry was not accepted")
         return 1
     n_values = sum(len(records) for ing in registry.ingredients.values() for records in ing.values.values())
     _out(f"ok: release {registry.release}, {len(registry.ingredients)} ingredients, {n_values} values, "
          f"{len(registry.sources)} sources, {len(registry.davies_groups)} Davies groups; version {registry.version}")
+    return 0
+
+
+def cmd_lock(args) -> int:
+    registry = _load(args)
+    if registry is None:
+        return 1
+    # Regenerating must not launder a figure changed under an old review.
+    broken, _ = review.compare(registry, args.root)
+    _faults(broken)
+    if broken:
+        _err(f"{len(broken)} value(s) break the review rule; {review.LOCK_NAME} was not written")
+        return 1
+    changed, n = review.write_lock(registry, args.root)
+    _out(f"{'wrote' if changed else 'unchanged'}: {Path(args.root) / review.LOCK_NAME}, {n} reviewed values")
     return 0
 
 
@@ -181,7 +206,7 @@ def cmd_diff(args) -> int:
     try:
         old, new = load_registry(args.old), load_registry(args.new)
     except RegistryError as exc:
-        _err(f"error: {exc.file}: {exc.field}: {exc.message}")
+        _faults([exc])
         return 1
     changes, deletions = diff_lines(old, new)
     _out(f"{old.version} -> {new.version}")
@@ -195,12 +220,15 @@ def parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(prog="emulsion-registry", description="Check, read and compare the ingredient registry.")
     sub = p.add_subparsers(dest="command", required=True)
 
-    def tree(sp):
+    def tree(sp, overlay=True):
         sp.add_argument("--root", type=Path, default=DEFAULT_ROOT, help="registry tree (default: the shipped one)")
-        sp.add_argument("--overlay", type=Path, default=None, help="a site overlay folder to apply")
+        if overlay:
+            sp.add_argument("--overlay", type=Path, default=None, help="a site overlay folder to apply")
         return sp
 
-    tree(sub.add_parser("check", help="validate every file")).set_defaults(fn=cmd_check)
+    tree(sub.add_parser("check", help="validate every file, and the review rule against the lock")).set_defaults(fn=cmd_check)
+    # The lock records the shipped tree's reviews; a site overlay has none in it.
+    tree(sub.add_parser("lock", help=f"regenerate {review.LOCK_NAME}, the record of reviewed values"), overlay=False).set_defaults(fn=cmd_lock, overlay=None)
     sp = tree(sub.add_parser("list", help="ingredients with their preferred values"))
     sp.add_argument("--role", choices=["surfactant", "oil_phase", "aqueous_phase", "hydrocolloid"])
     sp.add_argument("--all", action="store_true", help="include retired records")

@@ -325,6 +325,8 @@ def _build(root: Path, overlay: Path | None, collect: bool) -> tuple[Registry | 
         return None, c.errors
     registry = Registry(
         release=release_data["release"],
+        # The data files only: reviewed.lock.toml is derived from them (see
+        # registry/review.py), and the service never reads it.
         digest=_digest(root, [release_path, sources_path, davies_path, *ingredient_paths]),
         ingredients=frozen_mapping(ingredients),
         sources=frozen_mapping(sources),
