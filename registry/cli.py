@@ -4,8 +4,8 @@ another tree (a working copy); --overlay adds a site overlay.
 
 Exit status: 0 when all is well; 1 when a check fails (the review rule
 included), an id is unknown, lock finds the review rule broken (and writes
-nothing), or a diff finds a record deleted rather than retired; 2 for usage
-errors."""
+nothing), or a diff finds a record deleted rather than retired or a reviewed
+value changed without a renewed review; 2 for usage errors."""
 from __future__ import annotations
 
 import argparse
@@ -208,12 +208,17 @@ def cmd_diff(args) -> int:
     except RegistryError as exc:
         _faults([exc])
         return 1
-    changes, deletions = diff_lines(old, new)
+    changes, deletions, reviews = diff_lines(old, new)
     _out(f"{old.version} -> {new.version}")
     for line in changes + deletions:
         _out(line)
-    _out(f"{len(changes)} change(s), {len(deletions)} deletion(s)")
-    return 1 if deletions else 0
+    unreviewed = sum(not ok for _, ok in reviews)
+    if reviews:
+        _out("review (status changes, and changes to reviewed values; '!' lacks a renewed review):")
+        for line, _ in reviews:
+            _out(f"  {line}")
+    _out(f"{len(changes)} change(s), {len(deletions)} deletion(s), {len(reviews)} review change(s), {unreviewed} without a renewed review")
+    return 1 if deletions or unreviewed else 0
 
 
 def parser() -> argparse.ArgumentParser:

@@ -4,7 +4,8 @@ keeps the figure they checked until a new review says otherwise.
 What each review vouched for is kept in a generated lock, `reviewed.lock.toml`
 beside registry.toml: one entry per value whose status is
 checked_against_source or measured. The steward's `check` compares the tree
-with it and `lock` rewrites it. The service's loader never reads the lock:
+with it, `lock` rewrites it, and `diff` judges status and figure changes
+between two trees by the same rule. The service's loader never reads the lock:
 start-up does not pay for it, and a deployment cannot fail on it."""
 from __future__ import annotations
 
@@ -57,6 +58,12 @@ def keyed(records: Iterable[ValueRecord]) -> dict[tuple, tuple[int, ValueRecord]
         out[base + (seen[base],)] = (i, record)
         seen[base] += 1
     return out
+
+
+def label(key: tuple, record: ValueRecord) -> str:
+    source, _, temperature, nth = key
+    parts = [source] + ([record.locator] if record.locator else []) + ([f"{temperature:g} degC"] if temperature is not None else [])
+    return "[" + ", ".join(parts) + (f" #{nth + 1}" if nth else "") + "]"
 
 
 def vouched(record: ValueRecord) -> dict:
@@ -208,3 +215,25 @@ def write_lock(registry: Registry, root: Path | str) -> tuple[bool, int]:
         return False, count
     path.write_text(text, encoding="utf-8")
     return True, count
+
+
+@dataclass(frozen=True)
+class ReviewChange:
+    text: str
+    renewed: bool  # False: the change needed a review it has not had
+
+
+def review_change(old: ValueRecord, new: ValueRecord) -> ReviewChange | None:
+    """How one value's review stands from OLD to NEW: None unless its status
+    changed, or its figure (unit, locator) changed while it is reviewed."""
+    a, b = vouched(old), vouched(new)
+    changed = [k for k in VOUCHED if a.get(k) != b.get(k)]
+    if old.status == new.status and not (changed and new.status in REVIEWED):
+        return None
+    text = "; ".join(f"{k} {a.get(k)!r} -> {b.get(k)!r}" for k in changed)
+    if new.status not in REVIEWED:
+        return ReviewChange(f"{text}: no longer under the review rule", True)
+    if renewed(old.reviewed_on, new):
+        return ReviewChange(f"{text}: reviewed by {new.reviewed_by} on {new.reviewed_on}", True)
+    what = "figure" if set(changed) & set(FIGURE) else changed[0]
+    return ReviewChange(f"{text}: {what} changed without a renewed review ({_not_renewed(old.reviewed_on, new)})", False)
