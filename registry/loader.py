@@ -99,6 +99,11 @@ def _check_schema(data: dict, validator: Draft202012Validator, file: str) -> Non
     raise RegistryError(file, where, message)
 
 
+def _known_source(source_id: str, sources: dict, file: str, field: str) -> None:
+    if source_id not in sources:
+        raise RegistryError(file, field, f"unknown source '{source_id}' (not in sources.toml)")
+
+
 def _value_record(prop: str, raw: dict, file: str, field: str, local: bool) -> ValueRecord:
     low = raw.get("low", raw.get("value"))
     high = raw.get("high", raw.get("value"))
@@ -131,8 +136,7 @@ def _value_list(prop: str, raws: list, file: str, sources: dict, local: bool, wh
     active = [raw for raw in raws if not raw.get("retired")]
     for i, raw in enumerate(raws):
         field = f"{where}/{prop}/{i}"
-        if raw["source"] not in sources:
-            raise RegistryError(file, f"{field}/source", f"unknown source '{raw['source']}' (not in sources.toml)")
+        _known_source(raw["source"], sources, file, f"{field}/source")
         if "low" in raw and raw["low"] > raw["high"]:
             raise RegistryError(file, f"{field}/low", "low is greater than high")
         if raw.get("midpoint_of_range") and "low" not in raw:
@@ -183,8 +187,7 @@ def _override(base: Ingredient, data: dict, file: str, sources: dict) -> Ingredi
 
 def _hlb_ranges(data: dict, file: str, sources: dict) -> HlbRangeTable:
     table = data["hlb_ranges"]
-    if table["source"] not in sources:
-        raise RegistryError(file, "hlb_ranges/source", f"unknown source '{table['source']}' (not in sources.toml)")
+    _known_source(table["source"], sources, file, "hlb_ranges/source")
     ranges = {}
     for name, r in table["ranges"].items():
         if r["low"] > r["high"]:
@@ -197,8 +200,7 @@ def _hlb_ranges(data: dict, file: str, sources: dict) -> HlbRangeTable:
 
 def _emulsifier_levels(data: dict, file: str, sources: dict) -> EmulsifierLevelTable:
     table = data["emulsifier_levels"]
-    if table["source"] not in sources:
-        raise RegistryError(file, "emulsifier_levels/source", f"unknown source '{table['source']}' (not in sources.toml)")
+    _known_source(table["source"], sources, file, "emulsifier_levels/source")
     families = []
     for name, f in table["families"].items():
         for key in ("alone", "with_partner"):
