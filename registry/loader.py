@@ -95,7 +95,7 @@ def _check_schema(data: dict, validator: Draft202012Validator, file: str) -> Non
     elif error.validator == "oneOf" and isinstance(error.instance, dict):
         message = "a value needs 'value', or 'low' and 'high'"
     elif error.validator == "required" and error.schema_path and "then" in error.schema_path:
-        message = f"{message} (needed with the value's kind, status or retirement)"
+        message = f"{message} (needed with the record's kind, status, doubt or retirement)"
     raise RegistryError(file, where, message)
 
 
@@ -127,7 +127,8 @@ def _value_record(prop: str, raw: dict, file: str, field: str, local: bool) -> V
         preferred_reason=raw.get("preferred_reason"), midpoint_of_range=raw.get("midpoint_of_range", False),
         note=raw.get("note"), basis=raw.get("basis"), unit=raw.get("unit"), temperature_c=raw.get("temperature_c"),
         retired=raw.get("retired", False), retired_on=raw.get("retired_on"), retired_reason=raw.get("retired_reason"),
-        local=local, recorded=frozen_mapping(recorded),
+        local=local, recorded=frozen_mapping(recorded), doubtful=raw.get("doubtful", False),
+        doubtful_reason=raw.get("doubtful_reason"),
     )
 
 
@@ -145,6 +146,12 @@ def _value_list(prop: str, raws: list, file: str, sources: dict, local: bool, wh
             raise RegistryError(file, f"{field}/preferred", "a retired value cannot be preferred: mark another one")
         if raw.get("preferred") and len(active) > 1 and not raw.get("preferred_reason"):
             raise RegistryError(file, f"{field}/preferred_reason", "a preferred value among several needs its reason")
+        if raw.get("doubtful") and raw.get("preferred"):
+            raise RegistryError(file, f"{field}/preferred", "a doubtful value cannot be preferred: mark another one")
+        # A lone current value is preferred without saying so, and would be used.
+        if raw.get("doubtful") and not raw.get("retired") and len(active) == 1:
+            raise RegistryError(file, f"{field}/doubtful", "the only current value cannot be doubtful: a calculation would use it "
+                                "(add a better-sourced value, or retire this one)")
     n_preferred = sum(1 for raw in active if raw.get("preferred"))
     if len(active) > 1 and n_preferred != 1:
         raise RegistryError(file, f"{where}/{prop}", f"{len(active)} current values need exactly one marked preferred (found {n_preferred})")

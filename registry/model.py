@@ -59,6 +59,10 @@ class ValueRecord:
     retired_reason: str | None = None
     local: bool = False
     recorded: Mapping[str, float] = field(default_factory=dict)
+    # Kept, but not to be trusted: never preferred, and left out of
+    # Ingredient.span_without_doubtful.
+    doubtful: bool = False
+    doubtful_reason: str | None = None
 
     @property
     def figure(self) -> float:
@@ -120,6 +124,20 @@ class Ingredient:
         if not records:
             return None
         return min(r.low for r in records), max(r.high for r in records)
+
+    def span_without_doubtful(self, prop: str) -> tuple[float, float] | None:
+        """The span of the comparable values not flagged doubtful, or None
+        when there are none: what the sources dispute once a value known to
+        be unreliable is set aside."""
+        records = [r for r in self.comparable(prop) if not r.doubtful]
+        if not records:
+            return None
+        return min(r.low for r in records), max(r.high for r in records)
+
+    def has_doubtful(self, prop: str) -> bool:
+        """Whether any comparable value of the property is flagged doubtful
+        (that is, whether span and span_without_doubtful may differ)."""
+        return any(r.doubtful for r in self.comparable(prop))
 
     @property
     def uses_local_values(self) -> bool:
