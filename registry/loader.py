@@ -26,6 +26,7 @@ from registry.model import (
     DaviesGroup,
     EmulsifierLevel,
     EmulsifierLevelTable,
+    FunctionsRecord,
     HlbRange,
     HlbRangeTable,
     Ingredient,
@@ -161,7 +162,25 @@ def _value_list(prop: str, raws: list, file: str, sources: dict, local: bool, wh
     return records
 
 
+def _functions(data: dict, file: str, sources: dict) -> FunctionsRecord | None:
+    """The [functions] table; the schema has checked its names and its
+    provenance fields, as it does a value's."""
+    raw = data.get("functions")
+    if raw is None:
+        if data.get("retired"):
+            return None
+        # Without it the service could not tell an emulsifier from an opacifier.
+        raise RegistryError(file, "functions", "a current ingredient needs [functions]: what it does in a formula, with its source")
+    _known_source(raw["source"], sources, file, "functions/source")
+    return FunctionsRecord(
+        functions=tuple(raw["list"]), source_id=raw["source"], status=raw["status"],
+        recalled_from_memory=raw.get("recalled_from_memory", False), locator=raw.get("locator"), note=raw.get("note"),
+        reviewed_by=raw.get("reviewed_by"), reviewed_on=raw.get("reviewed_on"),
+    )
+
+
 def _ingredient(data: dict, file: str, sources: dict, local: bool) -> Ingredient:
+    functions = _functions(data, file, sources)
     values = {}
     for prop in PROPERTIES:
         if data["values"].get(prop):
@@ -173,6 +192,7 @@ def _ingredient(data: dict, file: str, sources: dict, local: bool) -> Ingredient
         viscous=data.get("viscous", False), hlb_is_apparent=data.get("hlb_is_apparent", False),
         note=data.get("note"), retired=data.get("retired", False), retired_on=data.get("retired_on"),
         retired_reason=data.get("retired_reason"), local=local, values=frozen_mapping(values),
+        functions=functions.functions if functions else (), functions_record=functions,
     )
 
 
@@ -180,6 +200,10 @@ def _override(base: Ingredient, data: dict, file: str, sources: dict) -> Ingredi
     """Apply a site overlay file to a shipped ingredient: its values are added
     as local values, and for each property it gives, its preferred value
     becomes the preferred one."""
+    if "functions" in data:
+        # The overlay adds local values; what a shipped ingredient does is the
+        # registry's statement, and a local one could not be told apart.
+        raise RegistryError(file, "functions", "a site overlay cannot change a shipped ingredient's functions")
     values = dict(base.values)
     for prop in PROPERTIES:
         raws = data["values"].get(prop)
