@@ -6,6 +6,6 @@ depends on it, never the other way round.
 """
 from registry.errors import RegistryError
 from registry.loader import DEFAULT_ROOT, load_registry
-from registry.model import Ingredient, Registry, Source, ValueRecord
+from registry.model import FunctionsRecord, Ingredient, Registry, Source, ValueRecord
 
-__all__ = ["DEFAULT_ROOT", "Ingredient", "Registry", "RegistryError", "Source", "ValueRecord", "load_registry"]
+__all__ = ["DEFAULT_ROOT", "FunctionsRecord", "Ingredient", "Registry", "RegistryError", "Source", "ValueRecord", "load_registry"]

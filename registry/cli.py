@@ -13,14 +13,16 @@ import json
 import os
 import sys
 from collections import Counter
+from dataclasses import fields
 from pathlib import Path
 from typing import Sequence
 
 from registry import review
 from registry.diff import diff_lines
+from registry.display import functions_lines, value_lines
 from registry.errors import RegistryError
 from registry.loader import DEFAULT_ROOT, check_tree, load_registry
-from registry.model import PROPERTIES, UNITS, Registry, ValueRecord
+from registry.model import PROPERTIES, FunctionsRecord, Registry, ValueRecord
 
 HLB_PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo")
 
@@ -101,29 +103,6 @@ def cmd_list(args) -> int:
     return 0
 
 
-def _value_lines(registry: Registry, record: ValueRecord) -> list[str]:
-    source = registry.sources[record.source_id]
-    unit = f" {UNITS[record.property]}" if record.property in UNITS else ""
-    head = f"{record.low:g} to {record.high:g}{unit}" if record.is_range else f"{record.figure:g}{unit}"
-    marks = [m for m, on in [("preferred", record.preferred), ("midpoint of range", record.midpoint_of_range),
-                             ("recalled from memory", record.recalled_from_memory), ("site overlay", record.local),
-                             ("RETIRED", record.retired)] if on]
-    lines = [f"  {head}" + (f"  [{', '.join(marks)}]" if marks else "")]
-    if record.recorded and record.basis == "specific_gravity_25_25":
-        lines.append(f"    recorded as specific gravity 25/25: {dict(record.recorded)}")
-    elif record.unit and record.unit != UNITS.get(record.property):
-        lines.append(f"    recorded as {dict(record.recorded)} {record.unit}")
-    lines.append(f"    source: {source.id}: {source.citation}")
-    for label, value in [("locator", record.locator), ("kind", record.kind), ("method", record.method),
-                         ("status", record.status), ("reviewed", " on ".join(filter(None, [record.reviewed_by, record.reviewed_on])) or None),
-                         ("temperature", f"{record.temperature_c:g} degC" if record.temperature_c is not None else None),
-                         ("conditions", record.conditions), ("why preferred", record.preferred_reason), ("note", record.note),
-                         ("retired", f"{record.retired_on}: {record.retired_reason}" if record.retired else None)]:
-        if value:
-            lines.append(f"    {label}: {value}")
-    return lines
-
-
 def cmd_show(args) -> int:
     registry = _load(args)
     if registry is None:
@@ -140,12 +119,14 @@ def cmd_show(args) -> int:
         _out(f"  formula: {ing.molecular_formula}")
     if ing.note:
         _out(f"  note: {ing.note}")
+    for line in functions_lines(registry, ing.functions_record):
+        _out(line)
     for prop in PROPERTIES:
         records = ing.values.get(prop, ())
         if records:
             _out(f"{prop}:")
             for record in records:
-                for line in _value_lines(registry, record):
+                for line in value_lines(registry, record):
                     _out(line)
     return 0
 
@@ -165,7 +146,8 @@ def report_data(registry: Registry, hlb_threshold: float, density_threshold: flo
             limit = density_threshold if prop == "density" else hlb_threshold
             if high - low > limit:
                 disagreements.append({"ingredient": ing.id, "property": prop, "low": low, "high": high,
-                                      "sources": sorted({r.source_id for r in active})})
+                                      "sources": sorted({r.source_id for r in active}),
+                                      "without_doubtful": ing.span_without_doubtful(prop) if ing.has_doubtful(prop) else None})
     return {
         "release": registry.release, "version": registry.version,
         "values": len(records),
@@ -176,6 +158,10 @@ def report_data(registry: Registry, hlb_threshold: float, density_threshold: flo
         "oil_phase_lacking_required_hlb_ow": sorted(i.id for i in current if "oil_phase" in i.roles and not i.active("required_hlb_ow")),
         "oil_phase_lacking_required_hlb_wo": sorted(i.id for i in current if "oil_phase" in i.roles and not i.active("required_hlb_wo")),
         "surfactants_lacking_hlb": sorted(i.id for i in current if "surfactant" in i.roles and not i.active("hlb")),
+        "current_ingredients": len(current),
+        "functions_unverified": sorted(i.id for i in current if i.functions_record and not i.functions_record.is_verified),
+        "doubtful_values": [{"ingredient": ing.id, "property": prop, "source": r.source_id, "reason": r.doubtful_reason}
+                            for ing in current for prop in ing.values for r in ing.active(prop) if r.doubtful],
         "disagreements": disagreements,
         "thresholds": {"hlb": hlb_threshold, "density_g_per_ml": density_threshold},
     }
@@ -196,9 +182,13 @@ def cmd_report(args) -> int:
     for key, label in [("lacking_density", "lacking a density"), ("oil_phase_lacking_required_hlb_ow", "oil phase lacking an O/W required HLB"),
                        ("oil_phase_lacking_required_hlb_wo", "oil phase lacking a W/O required HLB"), ("surfactants_lacking_hlb", "surfactants lacking an HLB")]:
         _out(f"{label} ({len(data[key])}): {', '.join(data[key]) or 'none'}")
+    _out(f"functions unverified: {len(data['functions_unverified'])} of {data['current_ingredients']} current ingredients")
+    _out(f"doubtful values ({len(data['doubtful_values'])}): "
+         + (", ".join(f"{d['ingredient']} {d['property']} ({d['source']})" for d in data["doubtful_values"]) or "none"))
     _out(f"sources disagreeing by more than {args.threshold:g} HLB units or {args.density_threshold:g} g/mL ({len(data['disagreements'])}):")
     for d in data["disagreements"]:
-        _out(f"  {d['ingredient']} {d['property']}: {d['low']:g} to {d['high']:g} ({', '.join(d['sources'])})")
+        rest = f"; {d['without_doubtful'][0]:g} to {d['without_doubtful'][1]:g} without doubtful values" if d["without_doubtful"] else ""
+        _out(f"  {d['ingredient']} {d['property']}: {d['low']:g} to {d['high']:g} ({', '.join(d['sources'])}){rest}")
     return 0
 
 

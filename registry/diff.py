@@ -3,7 +3,9 @@ steward's `diff` and for a reviewer reading a data change."""
 from __future__ import annotations
 
 from registry import review
-from registry.model import PROPERTIES, Registry, ValueRecord
+from dataclasses import fields
+
+from registry.model import PROPERTIES, FunctionsRecord, Registry, ValueRecord
 
 
 # The figure as the `list` command prints it; a diff holds no overlay values,
@@ -13,7 +15,7 @@ def _figure(record: ValueRecord) -> str:
 
 
 COMPARED = ("low", "high", "kind", "status", "preferred", "retired", "recalled_from_memory", "method", "note", "reviewed_by", "reviewed_on",
-            "unit", "locator")
+            "unit", "locator", "doubtful", "doubtful_reason")
 
 
 def diff_lines(old: Registry, new: Registry) -> tuple[list[str], list[str], list[tuple[str, bool]]]:
@@ -31,6 +33,10 @@ def diff_lines(old: Registry, new: Registry) -> tuple[list[str], list[str], list
             continue
         if not a.retired and b.retired:
             changes.append(f"~ {iid}: retired on {b.retired_on}: {b.retired_reason}")
+        for f in fields(FunctionsRecord):
+            va, vb = getattr(a.functions_record, f.name, None), getattr(b.functions_record, f.name, None)
+            if va != vb:
+                changes.append(f"~ {iid} functions: {f.name} {va!r} -> {vb!r}")
         for prop in PROPERTIES:
             olds = {key: r for key, (_, r) in review.keyed(a.values.get(prop, ())).items()}
             news = {key: r for key, (_, r) in review.keyed(b.values.get(prop, ())).items()}

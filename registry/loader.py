@@ -26,6 +26,7 @@ from registry.model import (
     DaviesGroup,
     EmulsifierLevel,
     EmulsifierLevelTable,
+    FunctionsRecord,
     HlbRange,
     HlbRangeTable,
     Ingredient,
@@ -95,8 +96,13 @@ def _check_schema(data: dict, validator: Draft202012Validator, file: str) -> Non
     elif error.validator == "oneOf" and isinstance(error.instance, dict):
         message = "a value needs 'value', or 'low' and 'high'"
     elif error.validator == "required" and error.schema_path and "then" in error.schema_path:
-        message = f"{message} (needed with the value's kind, status or retirement)"
+        message = f"{message} (needed with the record's kind, status, doubt or retirement)"
     raise RegistryError(file, where, message)
+
+
+def _known_source(source_id: str, sources: dict, file: str, field: str) -> None:
+    if source_id not in sources:
+        raise RegistryError(file, field, f"unknown source '{source_id}' (not in sources.toml)")
 
 
 def _value_record(prop: str, raw: dict, file: str, field: str, local: bool) -> ValueRecord:
@@ -122,7 +128,8 @@ def _value_record(prop: str, raw: dict, file: str, field: str, local: bool) -> V
         preferred_reason=raw.get("preferred_reason"), midpoint_of_range=raw.get("midpoint_of_range", False),
         note=raw.get("note"), basis=raw.get("basis"), unit=raw.get("unit"), temperature_c=raw.get("temperature_c"),
         retired=raw.get("retired", False), retired_on=raw.get("retired_on"), retired_reason=raw.get("retired_reason"),
-        local=local, recorded=frozen_mapping(recorded),
+        local=local, recorded=frozen_mapping(recorded), doubtful=raw.get("doubtful", False),
+        doubtful_reason=raw.get("doubtful_reason"),
     )
 
 
@@ -131,8 +138,7 @@ def _value_list(prop: str, raws: list, file: str, sources: dict, local: bool, wh
     active = [raw for raw in raws if not raw.get("retired")]
     for i, raw in enumerate(raws):
         field = f"{where}/{prop}/{i}"
-        if raw["source"] not in sources:
-            raise RegistryError(file, f"{field}/source", f"unknown source '{raw['source']}' (not in sources.toml)")
+        _known_source(raw["source"], sources, file, f"{field}/source")
         if "low" in raw and raw["low"] > raw["high"]:
             raise RegistryError(file, f"{field}/low", "low is greater than high")
         if raw.get("midpoint_of_range") and "low" not in raw:
@@ -141,6 +147,12 @@ def _value_list(prop: str, raws: list, file: str, sources: dict, local: bool, wh
             raise RegistryError(file, f"{field}/preferred", "a retired value cannot be preferred: mark another one")
         if raw.get("preferred") and len(active) > 1 and not raw.get("preferred_reason"):
             raise RegistryError(file, f"{field}/preferred_reason", "a preferred value among several needs its reason")
+        if raw.get("doubtful") and raw.get("preferred"):
+            raise RegistryError(file, f"{field}/preferred", "a doubtful value cannot be preferred: mark another one")
+        # A lone current value is preferred without saying so, and would be used.
+        if raw.get("doubtful") and not raw.get("retired") and len(active) == 1:
+            raise RegistryError(file, f"{field}/doubtful", "the only current value cannot be doubtful: a calculation would use it "
+                                "(add a better-sourced value, or retire this one)")
     n_preferred = sum(1 for raw in active if raw.get("preferred"))
     if len(active) > 1 and n_preferred != 1:
         raise RegistryError(file, f"{where}/{prop}", f"{len(active)} current values need exactly one marked preferred (found {n_preferred})")
@@ -150,7 +162,25 @@ def _value_list(prop: str, raws: list, file: str, sources: dict, local: bool, wh
     return records
 
 
+def _functions(data: dict, file: str, sources: dict) -> FunctionsRecord | None:
+    """The [functions] table; the schema has checked its names and its
+    provenance fields, as it does a value's."""
+    raw = data.get("functions")
+    if raw is None:
+        if data.get("retired"):
+            return None
+        # Without it the service could not tell an emulsifier from an opacifier.
+        raise RegistryError(file, "functions", "a current ingredient needs [functions]: what it does in a formula, with its source")
+    _known_source(raw["source"], sources, file, "functions/source")
+    return FunctionsRecord(
+        functions=tuple(raw["list"]), source_id=raw["source"], status=raw["status"],
+        recalled_from_memory=raw.get("recalled_from_memory", False), locator=raw.get("locator"), note=raw.get("note"),
+        reviewed_by=raw.get("reviewed_by"), reviewed_on=raw.get("reviewed_on"),
+    )
+
+
 def _ingredient(data: dict, file: str, sources: dict, local: bool) -> Ingredient:
+    functions = _functions(data, file, sources)
     values = {}
     for prop in PROPERTIES:
         if data["values"].get(prop):
@@ -162,6 +192,7 @@ def _ingredient(data: dict, file: str, sources: dict, local: bool) -> Ingredient
         viscous=data.get("viscous", False), hlb_is_apparent=data.get("hlb_is_apparent", False),
         note=data.get("note"), retired=data.get("retired", False), retired_on=data.get("retired_on"),
         retired_reason=data.get("retired_reason"), local=local, values=frozen_mapping(values),
+        functions=functions.functions if functions else (), functions_record=functions,
     )
 
 
@@ -169,6 +200,10 @@ def _override(base: Ingredient, data: dict, file: str, sources: dict) -> Ingredi
     """Apply a site overlay file to a shipped ingredient: its values are added
     as local values, and for each property it gives, its preferred value
     becomes the preferred one."""
+    if "functions" in data:
+        # The overlay adds local values; what a shipped ingredient does is the
+        # registry's statement, and a local one could not be told apart.
+        raise RegistryError(file, "functions", "a site overlay cannot change a shipped ingredient's functions")
     values = dict(base.values)
     for prop in PROPERTIES:
         raws = data["values"].get(prop)
@@ -183,8 +218,7 @@ def _override(base: Ingredient, data: dict, file: str, sources: dict) -> Ingredi
 
 def _hlb_ranges(data: dict, file: str, sources: dict) -> HlbRangeTable:
     table = data["hlb_ranges"]
-    if table["source"] not in sources:
-        raise RegistryError(file, "hlb_ranges/source", f"unknown source '{table['source']}' (not in sources.toml)")
+    _known_source(table["source"], sources, file, "hlb_ranges/source")
     ranges = {}
     for name, r in table["ranges"].items():
         if r["low"] > r["high"]:
@@ -197,8 +231,7 @@ def _hlb_ranges(data: dict, file: str, sources: dict) -> HlbRangeTable:
 
 def _emulsifier_levels(data: dict, file: str, sources: dict) -> EmulsifierLevelTable:
     table = data["emulsifier_levels"]
-    if table["source"] not in sources:
-        raise RegistryError(file, "emulsifier_levels/source", f"unknown source '{table['source']}' (not in sources.toml)")
+    _known_source(table["source"], sources, file, "emulsifier_levels/source")
     families = []
     for name, f in table["families"].items():
         for key in ("alone", "with_partner"):

@@ -14,6 +14,11 @@ PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo", "density", "molar_mas
 UNITS = {"density": "g/mL", "molar_mass": "g/mol"}
 STATUSES = ("unverified", "checked_against_source", "measured")
 KINDS = ("primary_literature", "handbook", "textbook", "pharmacopeia", "standard", "calculated", "in_house_measurement")
+# What an ingredient does in a formula; the schema's $defs/function holds the
+# same list (a test keeps them equal), registry/FIELDS.md says what each means.
+FUNCTIONS = ("emulsifier", "co_emulsifier", "solubilizer", "wetting_agent", "opacifier", "thickener", "stiffening_agent",
+             "emollient", "oil_vehicle", "humectant", "solvent", "aqueous_vehicle", "suspending_agent", "stabilizer",
+             "lubricant", "antifoaming_agent")
 
 
 @dataclass(frozen=True)
@@ -59,6 +64,10 @@ class ValueRecord:
     retired_reason: str | None = None
     local: bool = False
     recorded: Mapping[str, float] = field(default_factory=dict)
+    # Kept, but not to be trusted: never preferred, and left out of
+    # Ingredient.span_without_doubtful.
+    doubtful: bool = False
+    doubtful_reason: str | None = None
 
     @property
     def figure(self) -> float:
@@ -67,6 +76,25 @@ class ValueRecord:
     @property
     def is_range(self) -> bool:
         return self.low != self.high
+
+    @property
+    def is_verified(self) -> bool:
+        return self.status != "unverified"
+
+
+@dataclass(frozen=True)
+class FunctionsRecord:
+    """What an ingredient does in a formula (names from FUNCTIONS), with the
+    provenance of that statement, checked by the same rules as a value's."""
+
+    functions: tuple[str, ...]
+    source_id: str
+    status: str
+    recalled_from_memory: bool = False
+    locator: str | None = None
+    note: str | None = None
+    reviewed_by: str | None = None
+    reviewed_on: str | None = None
 
     @property
     def is_verified(self) -> bool:
@@ -92,6 +120,10 @@ class Ingredient:
     local: bool = False
     # Every value, retired ones included: the record is never rewritten away.
     values: Mapping[str, tuple[ValueRecord, ...]] = field(default_factory=dict)
+    # What it does in a formula: an opacifier with an HLB is not an emulsifier.
+    # Empty (and no record) only for a retired ingredient that never had one.
+    functions: tuple[str, ...] = ()
+    functions_record: FunctionsRecord | None = None
 
     def active(self, prop: str) -> tuple[ValueRecord, ...]:
         return tuple(r for r in self.values.get(prop, ()) if not r.retired)
@@ -120,6 +152,20 @@ class Ingredient:
         if not records:
             return None
         return min(r.low for r in records), max(r.high for r in records)
+
+    def span_without_doubtful(self, prop: str) -> tuple[float, float] | None:
+        """The span of the comparable values not flagged doubtful, or None
+        when there are none: what the sources dispute once a value known to
+        be unreliable is set aside."""
+        records = [r for r in self.comparable(prop) if not r.doubtful]
+        if not records:
+            return None
+        return min(r.low for r in records), max(r.high for r in records)
+
+    def has_doubtful(self, prop: str) -> bool:
+        """Whether any comparable value of the property is flagged doubtful
+        (that is, whether span and span_without_doubtful may differ)."""
+        return any(r.doubtful for r in self.comparable(prop))
 
     @property
     def uses_local_values(self) -> bool:

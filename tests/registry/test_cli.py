@@ -3,6 +3,7 @@ registry and on broken working copies."""
 from __future__ import annotations
 
 import json
+import re
 import shutil
 import subprocess
 import sys
@@ -83,6 +84,16 @@ def test_show_gives_provenance(capsys):
     assert "source: martin:" in out and "why preferred:" in out and "recorded as specific gravity 25/25" in out
 
 
+def test_show_gives_functions_and_marks_doubtful_values(capsys):
+    code, out, _ = run(capsys, "show", "castor-oil")
+    assert code == 0
+    functions = out.split("functions:\n", 1)[1]
+    assert functions.startswith("  emollient, oil_vehicle  [recalled from memory]\n    source: hpe-6:")
+    assert "6 to 7  [midpoint of range, recalled from memory, DOUBTFUL]" in out and "why doubtful: Far from the textbook" in out
+    _, out, _ = run(capsys, "show", "ethylene-glycol-distearate")
+    assert "  opacifier, thickener  [recalled from memory]" in out
+
+
 def test_show_unknown_id(capsys):
     code, out, err = run(capsys, "show", "no-such-thing")
     assert code == 1 and "no ingredient 'no-such-thing'" in err
@@ -97,6 +108,29 @@ def test_report_counts_and_disagreements(capsys, registry):
     assert "glyceryl-monostearate" in data["oil_phase_lacking_required_hlb_ow"]
     code, out, _ = run(capsys, "report", "--threshold", "5")
     assert "castor-oil required_hlb_ow: 6 to 14" in out and "white-wax" not in out.split("sources disagreeing")[1]
+
+
+def test_report_counts_unverified_functions_and_doubtful_values(capsys, registry):
+    _, out, _ = run(capsys, "report", "--json")
+    data = json.loads(out)
+    current = [i for i in registry.ingredients.values() if not i.retired]
+    assert len(data["functions_unverified"]) == data["current_ingredients"] == len(current)
+    assert [(d["ingredient"], d["property"]) for d in data["doubtful_values"]] == [("castor-oil", "required_hlb_ow")]
+    castor = next(d for d in data["disagreements"] if d["ingredient"] == "castor-oil")
+    assert castor["without_doubtful"] == [14.0, 14.0]
+    _, out, _ = run(capsys, "report")
+    assert f"functions unverified: {len(current)} of {len(current)} current ingredients" in out
+    assert "doubtful values (1): castor-oil required_hlb_ow (secondary-rhlb-tables)" in out
+    assert "castor-oil required_hlb_ow: 6 to 14 (martin, secondary-rhlb-tables); 14 to 14 without doubtful values" in out
+
+
+def test_diff_shows_functions_and_doubt(capsys, tree):
+    edit(tree / "ingredients" / "olive-oil.toml", 'list = ["emollient", "oil_vehicle"]', 'list = ["emollient"]')
+    castor = tree / "ingredients" / "castor-oil.toml"
+    castor.write_text(re.sub(r"doubtful(_reason)? = .*\n", "", castor.read_text()))
+    _, out, _ = run(capsys, "diff", DEFAULT_ROOT, tree)
+    assert "~ olive-oil functions: functions ('emollient', 'oil_vehicle') -> ('emollient',)" in out
+    assert "~ castor-oil required_hlb_ow [secondary-rhlb-tables]: doubtful True -> False" in out
 
 
 def test_diff_shows_changes(capsys, tree):
