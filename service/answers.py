@@ -64,6 +64,11 @@ def hlb_display(value: float) -> float:
     return round(value, 1)
 
 
+def hlb_span_display(span: tuple[float, float] | None) -> dict | None:
+    """A (low, high) HLB span as answers show it, or None."""
+    return {"low": hlb_display(span[0]), "high": hlb_display(span[1])} if span else None
+
+
 def unrounded(value: float) -> float:
     """The figure before display rounding, cut to 6 decimals so that float
     noise (11.600000000000001) does not pass for precision."""

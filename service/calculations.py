@@ -7,13 +7,13 @@ from typing import Sequence
 
 from registry import Registry
 from service import methods
-from service.answers import envelope, hlb_display, unrounded
+from service.answers import envelope, hlb_display, hlb_span_display, unrounded
 from service.core import findings as core_findings
 from service.core.blend import blend_hlb
-from service.core.emulsifier import minimum_emulsifier
+from service.core.emulsifier import OIL_LOAD_NOTE, estimate_limits, minimum_emulsifier, plausibility_finding
 from service.core.required_hlb import required_hlb
 from service.core.split import split_for_target, total_mass_from_volume
-from service.notices import apparent_hlb_warning, finding_warnings, solid_by_volume_warning
+from service.notices import UNPUBLISHED_METHOD, apparent_hlb_warning, finding_warnings, solid_by_volume_warning
 from service.lookups import (
     BATCH_INCREMENT_G,
     DEFAULT_ERROR_PERCENT,
@@ -23,6 +23,7 @@ from service.lookups import (
     enforce_strict,
     hlb_ranges,
     required_value,
+    usual_emulsifier_high_percent,
 )
 from service.resolve import RHLB_PROPERTY, Resolved, amount, checked_density, invalid, resolve
 from service.units import to_canonical
@@ -53,6 +54,7 @@ def blend(data: dict, registry: Registry, strict: bool = False) -> dict:
     emulsion_type = data.get("emulsion_type")
     warnings = finding_warnings([
         *core_findings.ionic_findings([it.ionic_class for it in items]),
+        *core_findings.off_scale_findings([(it.label, h.figure, it.ionic_class) for it, h in zip(items, hlbs)]),
         core_findings.usual_range_finding(result.hlb.figure, emulsion_type, hlb_ranges(registry)),
     ]) + _common_warnings(items, [c["amount"] for c in components])
     return envelope(
@@ -120,6 +122,7 @@ def split(data: dict, registry: Registry, strict: bool = False) -> dict:
     emulsion_type = data.get("emulsion_type")
     warnings = finding_warnings([
         *core_findings.ionic_findings([it.ionic_class for it in items]),
+        *core_findings.off_scale_findings([(it.label, h.figure, it.ionic_class) for it, h in zip(items, hlbs)]),
         core_findings.usual_range_finding(solved.hlb.figure, emulsion_type, hlb_ranges(registry)),
     ]) + apparent_hlb_warning(it.label for it in items if it.hlb_is_apparent)
     return envelope(
@@ -154,6 +157,7 @@ def oil_phase_rhlb(data: dict, registry: Registry, strict: bool = False) -> dict
     return envelope(
         result={"required_hlb": hlb_display(result.required_hlb.figure), "required_hlb_unrounded": unrounded(result.required_hlb.figure),
                 "range": {"low": hlb_display(result.required_hlb.low), "high": hlb_display(result.required_hlb.high)},
+                "range_with_doubtful": hlb_span_display(result.range_with_doubtful),
                 "emulsion_type": emulsion_type, "oil_phase_mass_g": result.total_mass_g},
         inputs={"emulsion_type": emulsion_type, "oil_phase": inputs},
         method=methods.REQUIRED_HLB, values_used=values_used, warnings=_common_warnings(items, [c["amount"] for c in oil]),
@@ -166,14 +170,17 @@ def emulsifier_minimum(data: dict, registry: Registry) -> dict:
     rho_d = checked_density(data["dispersed_phase_density"], ("dispersed_phase_density",))
     rhlb, q = data["required_hlb"], data["continuous_phase_percent"]
     estimate = minimum_emulsifier(rho_s, rho_d, rhlb, q)
+    usual_high = usual_emulsifier_high_percent(registry)
+    too_much = plausibility_finding(estimate.g_per_100g, usual_high, ("required_hlb",))
     balance = data.get("balance", {})
     sensitivity_g = to_canonical(balance["sensitivity"]["value"], balance["sensitivity"]["unit"])[1] if "sensitivity" in balance else DEFAULT_SENSITIVITY_G
     error_percent = balance.get("acceptable_error_percent", DEFAULT_ERROR_PERCENT)
     mwq_g = core_findings.minimum_weighable_quantity_g(sensitivity_g, error_percent)
     batch = None
-    warnings = [{"code": "unpublished_method", "subject": "method",
-                 "message": "this estimate comes from calculation practice and no primary publication for it could be found; "
-                            "treat it as a rough lower bound and confirm the emulsifier level by bench trial"}]
+    warnings = [{"code": "unpublished_method", "subject": "method", "message": UNPUBLISHED_METHOD},
+                {"code": "estimate_insensitive_to_oil_load", "subject": "method", "message": OIL_LOAD_NOTE}]
+    # The continuous phase's density is not asked for: the dispersed share is by mass.
+    warnings += finding_warnings([too_much, *core_findings.phase_volume_findings((100.0 - q) / 100.0, "by mass, emulsifier left out")])
     if "batch" in data:
         batch_g = to_canonical(data["batch"]["value"], data["batch"]["unit"])[1]
         need_g = estimate.g_per_100g / 100.0 * batch_g
@@ -190,6 +197,8 @@ def emulsifier_minimum(data: dict, registry: Registry) -> dict:
                          "message": f"a required HLB of {rhlb:g} is near the formula's singularity at 20; the estimate grows without bound there and is unreliable"})
     return envelope(
         result={"g_per_100g": estimate.g_per_100g, "g_per_100g_rounded_up": estimate.g_per_100g_rounded_up,
+                "continuous_phase_term_g_per_100g": 4.0 * q / 1000.0, "oil_load_note": OIL_LOAD_NOTE,
+                "limits_g_per_100g": dict(zip(("warning_above", "refused_above"), estimate_limits(usual_high))),
                 "basis": "grams of emulsifier per 100 g of emulsion (% w/w); the basis is inferred from the formula's percentage inputs",
                 "batch": batch},
         inputs={"required_hlb": rhlb, "surfactant_density_g_per_ml": rho_s, "dispersed_phase_density_g_per_ml": rho_d,

@@ -5,14 +5,15 @@ from __future__ import annotations
 
 from registry import Registry
 from service.core.batch import mixture_mass_for_volume
-from service.core.emulsifier import minimum_emulsifier
+from service.core.emulsifier import OIL_LOAD_NOTE, estimate_limits, minimum_emulsifier, plausibility_finding
 from service.core.errors import CalculationError
-from service.core.findings import ceil_to
+from service.core.findings import ceil_to, off_scale_findings
 from service.core.mixing import Term, weighted_mean
 from service.core.split import split_for_target
 from service.answers import hlb_display
-from service.lookups import required_value
-from service.pairs import DEFAULT_IONIC, ranked
+from service.lookups import DEFAULT_ESTIMATE_MARGIN_PERCENT, required_value, usual_emulsifier_high_percent
+from service.notices import UNPUBLISHED_METHOD, finding_warnings
+from service.pairs import DEFAULT_IONIC, oil_chain, ranked
 from service.resolve import checked_density, invalid, resolve
 from service.rows import Row, row_density
 
@@ -30,14 +31,17 @@ def _phase_density(rows: list[Row], registry: Registry, values_used: list, path:
 
 def emulsifier_rows(data: dict, rows: list[Row], rhlb, registry: Registry, strict: bool, values_used: list, warnings: list) -> tuple[list[Row], dict]:
     spec = data["emulsifier"]
-    target = spec.get("target_hlb", rhlb.required_hlb.figure)
+    # Solved on the required HLB as printed (to 0.1), so that a hand check
+    # from the printed figures gives the printed masses.
+    target = spec.get("target_hlb", hlb_display(rhlb.required_hlb.figure))
     fixed = [resolve(f, ("emulsifier", "fixed", i), registry) for i, f in enumerate(spec.get("fixed", []))]
     fixed_pct = [f["percent_w_w"] for f in spec.get("fixed", [])]
     fixed_hlb = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in fixed]
     proposed = False
     if "propose" in spec:
         ionic = tuple(spec["propose"].get("ionic_classes", DEFAULT_IONIC))
-        pairs = ranked(registry, target, ionic, strict)
+        chain = oil_chain(registry, [(r.item.ingredient_id, r.percent) for r in rows if r.phase == "oil" and r.percent is not None])
+        pairs = ranked(registry, target, ionic, strict, spec["propose"].get("include_off_scale_hlb", False), chain)
         if not pairs:
             raise invalid(("emulsifier", "propose"), "candidate_pair_exists", f"no registry pair of the allowed ionic classes ({', '.join(ionic)}) reaches HLB {target:.1f}")
         best = pairs[0]
@@ -54,7 +58,7 @@ def emulsifier_rows(data: dict, rows: list[Row], rhlb, registry: Registry, stric
             total = spec["total_percent_w_w"]
             basis = "given as % w/w of the formula"
         else:
-            total, estimate, basis = _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_used)
+            total, estimate, basis = _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_used, warnings)
         if total <= sum(fixed_pct):
             raise invalid(("emulsifier",), "room_for_pair", f"the fixed surfactants take {sum(fixed_pct):g} % w/w, all of the {total:g} % emulsifier system")
         try:
@@ -70,6 +74,8 @@ def emulsifier_rows(data: dict, rows: list[Row], rhlb, registry: Registry, stric
         mean = weighted_mean([Term(p, h.figure, h.low, h.high) for p, h in zip(fixed_pct, fixed_hlb)])
         fractions = mean.fractions
         target = None if "target_hlb" not in spec else target
+    member_hlbs = pair_hlb + fixed_hlb if pair else fixed_hlb
+    warnings.extend(finding_warnings(off_scale_findings([(it.label, h.figure, it.ionic_class) for it, h in zip(members, member_hlbs)])))
     # A pair member with no share (a target at the pair's end) is left out, not weighed as 0 g.
     new_rows = [Row(it, "emulsifier", "emulsifier", percent=f * total, path=it.path) for it, f in zip(members, fractions) if f > 1e-12]
     info = {
@@ -86,14 +92,15 @@ def emulsifier_rows(data: dict, rows: list[Row], rhlb, registry: Registry, stric
 
 
 
-def _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_used):
+def _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_used, warnings):
     """Emulsifier % w/w from the minimum estimate plus a margin. The estimate
     depends on the continuous phase's share, which the emulsifier itself
     takes from when the q.s. vehicle is in the continuous phase:
     E = (1 + m)(A + 0.004 Q) with Q = C - E, solved for E."""
     spec = data["emulsifier"]["minimum_estimate"]
     etype = data["emulsion_type"]
-    margin = spec.get("margin_percent", 0.0) / 100.0
+    margin_given = "margin_percent" in spec
+    margin = spec.get("margin_percent", DEFAULT_ESTIMATE_MARGIN_PERCENT) / 100.0
     if "surfactant_density" in spec:
         rho_s = checked_density(spec["surfactant_density"], ("emulsifier", "minimum_estimate", "surfactant_density"))
     else:
@@ -118,9 +125,10 @@ def _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_us
                           "the dispersed phase's densities are not all known: give dispersed_phase_density") from exc
     continuous = CONTINUOUS[etype]
     qs_row = next(r for r in rows if r.role == "qs")
-    # The estimate's constant part, at Q = 0 (RHLB domain checked by the core).
+    # The estimate's constant part, at Q = 0 (RHLB domain checked by the core),
+    # on the required HLB as printed.
     try:
-        a = minimum_emulsifier(rho_s, rho_d, rhlb.required_hlb.figure, 50.0).g_per_100g - 4.0 * 50.0 / 1000.0
+        a = minimum_emulsifier(rho_s, rho_d, hlb_display(rhlb.required_hlb.figure), 50.0).g_per_100g - 4.0 * 50.0 / 1000.0
     except CalculationError as exc:
         raise invalid(("ingredients",), exc.rule, f"the oil phase's required HLB is outside the estimate's domain: {exc.message}") from None
     if qs_row.phase == continuous:
@@ -133,5 +141,18 @@ def _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_us
     if not 0.0 < q < 100.0:
         raise invalid(("ingredients",), "continuous_phase_share", f"the continuous phase would be {q:g} % of the emulsion")
     estimate = a + 0.004 * q
-    total = ceil_to(total, 0.1)
-    return total, estimate, f"minimum estimate {estimate:.2f} g per 100 g plus a {margin * 100:g} % margin, rounded up to 0.1 %"
+    usual_high = usual_emulsifier_high_percent(registry)
+    try:
+        finding = plausibility_finding(estimate, usual_high, ("emulsifier", "minimum_estimate"))
+        total = ceil_to(total, 0.1)
+        _, ceiling = estimate_limits(usual_high)
+        if total > ceiling:
+            raise CalculationError(("emulsifier", "minimum_estimate", "margin_percent"), "estimate_plausible",
+                                   f"the estimate plus its margin is {total:g} % w/w, above the ceiling of {ceiling:g} %: it cannot be a formula")
+    except CalculationError as exc:
+        raise invalid(exc.path, exc.rule, exc.message) from None
+    warnings.append({"code": "unpublished_method", "subject": "method", "message": UNPUBLISHED_METHOD})
+    warnings.append({"code": "estimate_insensitive_to_oil_load", "subject": "method", "message": OIL_LOAD_NOTE})
+    warnings.extend(finding_warnings([finding]))
+    margin_text = f"a {margin * 100:g} % margin" + ("" if margin_given else " (the default margin; give margin_percent to choose another)")
+    return total, estimate, f"minimum estimate {estimate:.2f} g per 100 g plus {margin_text}, rounded up to 0.1 %"

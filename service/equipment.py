@@ -11,6 +11,9 @@ from service.units import to_canonical
 DEFAULT_READABILITY_G = 0.01
 # A common set of cylindrical graduates (common practice, no source).
 DEFAULT_GRADUATES_ML = (10.0, 25.0, 50.0, 100.0, 250.0, 500.0, 1000.0)
+# Class A prescription balances are commonly built for loads up to 120 g
+# (common practice, no source read; see README "Equipment").
+DEFAULT_CAPACITY_G = 120.0
 # Graduates are commonly divided into about 50 parts (common practice, no source).
 DEFAULT_SUBDIVISIONS = 50.0
 
@@ -18,6 +21,7 @@ DEFAULT_SUBDIVISIONS = 50.0
 # Plausible equipment, in g and mL: outside these a figure is a slip of unit.
 READABILITY_G = (1e-6, 100.0)
 SENSITIVITY_G = (1e-6, 100.0)
+CAPACITY_G = (0.1, 1000000.0)
 CAPACITY_ML = (0.1, 100000.0)
 SUBDIVISION_ML = (1e-4, 1000.0)
 
@@ -40,12 +44,16 @@ def equipment_from(data: dict) -> tuple[Balance, tuple[Graduate, ...], list[str]
         defaults.append("acceptable weighing error 5 %")
     if "readability" not in balance:
         defaults.append("balance readability 10 mg")
+    if "capacity" not in balance:
+        defaults.append(f"balance capacity {DEFAULT_CAPACITY_G:g} g (Class A prescription balance)")
     b = Balance(
         sensitivity_g=_value(balance["sensitivity"], ("equipment", "balance", "sensitivity"), SENSITIVITY_G, "g")
         if "sensitivity" in balance else DEFAULT_SENSITIVITY_G,
         acceptable_error_percent=balance.get("acceptable_error_percent", DEFAULT_ERROR_PERCENT),
         readability_g=_value(balance["readability"], ("equipment", "balance", "readability"), READABILITY_G, "g")
         if "readability" in balance else DEFAULT_READABILITY_G,
+        capacity_g=_value(balance["capacity"], ("equipment", "balance", "capacity"), CAPACITY_G, "g")
+        if "capacity" in balance else DEFAULT_CAPACITY_G,
     )
     if "graduates" in data:
         graduates = []
@@ -64,6 +72,7 @@ def equipment_from(data: dict) -> tuple[Balance, tuple[Graduate, ...], list[str]
 def equipment_out(balance: Balance, graduates, defaults: list[str]) -> dict:
     """The equipment as answers report it."""
     return {"balance": {"sensitivity_g": balance.sensitivity_g, "acceptable_error_percent": balance.acceptable_error_percent,
-                        "readability_g": balance.readability_g, "minimum_weighable_quantity_g": balance.minimum_weighable_g},
+                        "readability_g": balance.readability_g, "capacity_g": balance.capacity_g,
+                        "minimum_weighable_quantity_g": balance.minimum_weighable_g},
             "graduates": [{"capacity_ml": g.capacity_ml, "subdivision_ml": g.subdivision_ml, "conical": g.conical} for g in graduates],
             "defaults_assumed": defaults}

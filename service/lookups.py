@@ -17,6 +17,22 @@ DEFAULT_ERROR_PERCENT = 5.0
 BATCH_INCREMENT_G = 0.01
 
 
+# Minimum-estimate margin when the request names none: a rough lower bound
+# plus a quarter (common practice, no source). Stated in every answer using it.
+DEFAULT_ESTIMATE_MARGIN_PERCENT = 25.0
+# Highest usual emulsifier level when a registry holds no table of them: the
+# figure the shipped table gives polysorbates and sorbitan esters alone.
+FALLBACK_USUAL_EMULSIFIER_HIGH_PERCENT = 15.0
+
+
+def usual_emulsifier_high_percent(registry: Registry) -> float:
+    """The highest usual emulsifier level (% w/w, used alone) the registry holds."""
+    levels = registry.emulsifier_levels
+    if levels is None or not levels.families:
+        return FALLBACK_USUAL_EMULSIFIER_HIGH_PERCENT
+    return max(level.alone[1] for level in levels.families)
+
+
 def enforce_strict(values_used: list[dict], strict: bool) -> None:
     """Strict mode: refuse registry values not yet checked against their
     source, naming each. Caller-supplied values are the caller's to vouch for."""

@@ -56,6 +56,10 @@ MINIMUM_EMULSIFIER = Method(
         "The result is read as grams per 100 g of emulsion; that basis is inferred from its percentage inputs.",
         "The figure is rounded up, never down, since it is a minimum; a weighable batch amount is at least the "
         "minimum weighable quantity (USP <1176>: sensitivity x 100 / acceptable % error).",
+        "The estimate is nearly insensitive to the oil/water ratio: the continuous-phase term 4·Q/1000 adds at most 0.4 g per "
+        "100 g over the whole range of Q; it does not scale with the oil load.",
+        "An estimate above the highest usual emulsifier level in the registry is warned about; one above twice that level "
+        "(never above 100 g per 100 g) cannot be a formula and is refused.",
     ),
 )
 
@@ -82,6 +86,15 @@ WORKSHEET = Method(
         "A batch given as a volume is turned into a mass assuming the components' volumes add.",
         "Oily and viscous liquids, solids and the q.s. vehicle are weighed; other liquids are measured in a graduate where the volume "
         "suits one.",
+    ),
+)
+WORKSHEET_WITH_ESTIMATE = Method(
+    name=WORKSHEET.name + ", the emulsifier sized by the minimum estimate",
+    formula=WORKSHEET.formula + "; emulsifier = (1 + margin) × (6·(ρs/ρd) / (10 − 0.5·RHLB) + 4·Q/1000), rounded up to 0.1 %",
+    source_ids=WORKSHEET.source_ids + ("practice-minimum-emulsifier",),
+    assumptions=WORKSHEET.assumptions + MINIMUM_EMULSIFIER.assumptions + (
+        "The margin on the estimate is the request's margin_percent, or 25 % when none is given (common practice, no source): "
+        "the estimate is a rough lower bound, never a dose to use as it is.",
     ),
 )
 WORKSHEET_CAUTIONS = (

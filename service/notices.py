@@ -7,6 +7,9 @@ from typing import Iterable, Sequence
 
 from service.core.findings import Finding
 
+UNPUBLISHED_METHOD = ("the minimum emulsifier estimate comes from calculation practice and no primary publication for it could be "
+                      "found; treat it as a rough lower bound and confirm the emulsifier level by bench trial")
+
 PROVENANCE_RULES = (
     ("unverified_value", lambda v: v["status"] == "unverified",
      "value(s) not yet checked against their cited source were used"),
@@ -18,6 +21,9 @@ PROVENANCE_RULES = (
      "value(s) from this pharmacy's site overlay, not from the shipped registry, were used"),
     ("sources_disagree", lambda v: v["sources_disagree"],
      "sources disagree on value(s) used; the preferred figure was used and the range is given"),
+    ("doubtful_value_left_out", lambda v: v["range_with_doubtful"] is not None,
+     "value(s) have a further figure the registry flags doubtful, left out of the range given (range_with_doubtful shows "
+     "the span with it)"),
 )
 
 

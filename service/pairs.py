@@ -6,30 +6,53 @@ from registry import Registry
 from service import methods
 from service.answers import envelope, hlb_display
 from service.calculations import oil_phase_rhlb
-from service.core.candidates import RULE, Pair, Surfactant, candidate_pairs
+from service.core.candidates import RULE, SINGLE_TOLERANCE_HLB, Pair, Surfactant, candidate_pairs, single_surfactants
+from service.core.findings import GRIFFIN_SCALE_MAX
+from service.core.findings import off_scale_findings
 from service.lookups import enforce_strict
+from service.notices import finding_warnings
 from service.resolve import Resolved, scalar_value
 
 DEFAULT_IONIC = ("nonionic",)
 DEFAULT_LIMIT = 10
 
 
-def registry_surfactants(registry: Registry, ionic_classes, strict: bool) -> list[Surfactant]:
-    """Current surfactants with an HLB, of the ionic classes allowed; no
-    hydrocolloids (apparent HLB only); in strict mode, verified HLBs only."""
+def registry_surfactants(registry: Registry, ionic_classes, strict: bool, off_scale: bool = False) -> list[Surfactant]:
+    """Current emulsifying agents (by their recorded functions) with an HLB,
+    of the ionic classes allowed; no hydrocolloids (apparent HLB only); none
+    above Griffin's 0 to 20 scale unless `off_scale`; in strict mode,
+    verified HLBs only."""
     out = []
     for ing in registry.ingredients.values():
-        if ing.retired or "surfactant" not in ing.roles or ing.hlb_is_apparent or ing.ionic_class not in ionic_classes:
+        if (ing.retired or "surfactant" not in ing.roles or "emulsifier" not in ing.functions or ing.hlb_is_apparent
+                or ing.ionic_class not in ionic_classes):
             continue
         record = ing.preferred("hlb")
-        if record is None or (strict and not record.is_verified):
+        if record is None or (strict and not record.is_verified) or (record.figure > GRIFFIN_SCALE_MAX and not off_scale):
             continue
         out.append(Surfactant(ing.id, record.figure, ing.ionic_class, ing.fatty_chain))
     return out
 
 
-def ranked(registry: Registry, target: float, ionic_classes, strict: bool) -> list[Pair]:
-    return candidate_pairs(target, registry_surfactants(registry, ionic_classes, strict))
+def oil_chain(registry: Registry, oil_shares: list[tuple[str | None, float]]) -> str | None:
+    """The fatty chain of the oil phase, where the registry can tell: the
+    chain of the registry ingredients (id, share) that make up more than half
+    of the oil phase by mass; None otherwise."""
+    total = sum(share for _, share in oil_shares)
+    by_chain: dict[str, float] = {}
+    for ingredient_id, share in oil_shares:
+        ing = registry.get(ingredient_id) if ingredient_id else None
+        if ing is not None and ing.fatty_chain:
+            by_chain[ing.fatty_chain] = by_chain.get(ing.fatty_chain, 0.0) + share
+    if not by_chain or total <= 0:
+        return None
+    chain, share = max(by_chain.items(), key=lambda kv: kv[1])
+    return chain if share > total / 2 else None
+
+
+def ranked(registry: Registry, target: float, ionic_classes, strict: bool, off_scale: bool = False,
+           chain: str | None = None) -> list[Pair]:
+    return candidate_pairs(target, registry_surfactants(registry, ionic_classes, strict, off_scale), chain)
 
 
 def _member(registry: Registry, s: Surfactant, share: float) -> dict:
@@ -41,29 +64,40 @@ def _member(registry: Registry, s: Surfactant, share: float) -> dict:
 def candidates(data: dict, registry: Registry, strict: bool = False) -> dict:
     ionic = tuple(data.get("ionic_classes", DEFAULT_IONIC))
     limit = data.get("limit", DEFAULT_LIMIT)
+    off_scale = data.get("include_off_scale_hlb", False)
     values_used, warnings = [], []
+    chain = None
     if "oil_phase" in data:
         rhlb = oil_phase_rhlb({"emulsion_type": data["emulsion_type"], "oil_phase": data["oil_phase"]}, registry, strict)
         target = rhlb["result"]["required_hlb_unrounded"]
         values_used += rhlb["values_used"]
+        chain = oil_chain(registry, [(row["ingredient"], row["percent_w_w"]) for row in rhlb["inputs"]["oil_phase"]])
     else:
         target = data["target_hlb"]
     enforce_strict(values_used, strict)
-    pairs = ranked(registry, target, ionic, strict)
+    surfactants = registry_surfactants(registry, ionic, strict, off_scale)
+    pairs = candidate_pairs(target, surfactants, chain)
+    singles = single_surfactants(target, surfactants)
     chosen = pairs[:limit]
-    for pair in chosen:
-        for s in (pair.low, pair.high):
-            item = Resolved(s.id, registry.get(s.id).name, s.ionic_class, None, False, registry.get(s.id), path=("candidates",))
-            found = scalar_value(item, "hlb", "hlb", registry)
-            if found and not any(v["ingredient"] == s.id and v["property"] == "hlb" for v in values_used):
-                values_used.append(found[1])
+    for s in [m for pair in chosen for m in (pair.low, pair.high)] + singles:
+        item = Resolved(s.id, registry.get(s.id).name, s.ionic_class, None, False, registry.get(s.id), path=("candidates",))
+        found = scalar_value(item, "hlb", "hlb", registry)
+        if found and not any(v["ingredient"] == s.id and v["property"] == "hlb" for v in values_used):
+            values_used.append(found[1])
+    if off_scale:
+        members = {s.id: s for p in chosen for s in (p.low, p.high)}
+        warnings += finding_warnings(off_scale_findings([(m.id, m.hlb, m.ionic_class) for m in members.values()]))
     if not pairs:
         warnings.append({"code": "no_candidate_pair", "subject": None,
                          "message": f"no pair of the allowed ionic classes ({', '.join(ionic)}) reaches HLB {target:.1f}"})
     result = {
-        "target_hlb": hlb_display(target), "rule": RULE, "considered": len(pairs),
+        "target_hlb": hlb_display(target), "rule": RULE, "considered": len(pairs), "oil_fatty_chain": chain,
         "candidates": [{"rank": i + 1, "low": _member(registry, p.low, 1 - p.share_high), "high": _member(registry, p.high, p.share_high),
-                        "same_fatty_chain": p.same_chain, "ionic_members": p.ionic_members} for i, p in enumerate(chosen)],
+                        "same_fatty_chain": p.same_chain, "matches_oil_chain": p.matches_oil, "ionic_members": p.ionic_members}
+                       for i, p in enumerate(chosen)],
+        "single_surfactants": [{**_member(registry, s, 1.0), "difference_hlb": s.hlb - target} for s in singles],
+        "single_tolerance_hlb": SINGLE_TOLERANCE_HLB,
     }
-    inputs = {"target_hlb": data.get("target_hlb"), "emulsion_type": data.get("emulsion_type"), "ionic_classes": list(ionic), "limit": limit}
+    inputs = {"target_hlb": data.get("target_hlb"), "emulsion_type": data.get("emulsion_type"), "ionic_classes": list(ionic), "limit": limit,
+              "include_off_scale_hlb": off_scale}
     return envelope(result, inputs, methods.CANDIDATES, values_used, warnings, registry, strict=strict)

@@ -26,6 +26,10 @@ def worksheet_text(answer: dict, markdown: bool) -> str:
     h1, h2 = ("# ", "## ") if markdown else ("", "")
     lines = [f"{h1}Batch worksheet: {r['emulsion_type']} emulsion, {_num(r['batch_mass_g'], 6)} g"]
     lines += [""] if markdown else ["=" * 72, ""]
+    if r["checks_failed"]:
+        banner = (f"CHECK BEFORE WEIGHING: {r['checks_failed']} check(s) failed. Do not weigh from this worksheet until a pharmacist "
+                  "has resolved every item marked CHECK below.")
+        lines += [f"> **{banner}**" if markdown else f"!!! {banner}", ""]
     lines += [f"Registry {answer['registry']['version']}" + ("; strict mode" if answer["strict"] else ""), ""]
     oil, em = r["oil_phase"], r["emulsifier"]
     lines += [f"{h2}Emulsifier system", "",
@@ -36,17 +40,19 @@ def worksheet_text(answer: dict, markdown: bool) -> str:
     mass_unit = r["rows"][0]["mass"]["unit"]
     readability = r["equipment"]["balance"]["readability_g"]
     lines += [f"{h2}Quantities", ""]
-    header = ["Ingredient", "Phase", "% w/w", f"Mass ({mass_unit})", "Volume", "How", "Checks"]
+    header = ["Ingredient", "Phase", "% w/w", f"Mass ({mass_unit})", "Unrounded (g)", "Rounding", "Volume", "How", "Checks"]
     table = []
     for row in r["rows"]:
         m = row["measure"]
         how = m["how"] + (f" ({_num(m['graduate_ml'])} mL graduate, {_num(m['volume_ml_rounded'])} mL)" if m["how"] == "graduate" else "")
         volume = f"{_num(row['volume']['value'])} {row['volume']['unit']}" if row["volume"] else "-"
-        flags = ", ".join(f"{_mark(k['ok'])}: {k['code']}" for k in row["checks"]) or "-"
+        failed = [k["code"] for k in row["checks"] if not k["ok"]]
+        flags = f"CHECK: {', '.join(failed)}" if failed else ("ok" if row["checks"] else "-")
         name = row["name"] + (" (q.s.)" if row["role"] == "qs" else "")
-        table.append([name, row["phase"], f"{row['percent_w_w']:.3f}", _mass(row["mass"]["value"], mass_unit, readability), volume, how, flags])
+        table.append([name, row["phase"], f"{row['percent_w_w']:.3f}", _mass(row["mass"]["value"], mass_unit, readability),
+                      f"{row['mass_g_unrounded']:.6g}", f"{row['rounding_error_percent']:+.2f} %", volume, how, flags])
     total = sum(row["mass"]["value"] for row in r["rows"])
-    table.append(["Total", "", f"{r['totals']['percent_w_w']:.3f}", _mass(total, mass_unit, readability), "", "", ""])
+    table.append(["Total", "", f"{r['totals']['percent_w_w']:.3f}", _mass(total, mass_unit, readability), "", "", "", "", ""])
     if markdown:
         lines.append("| " + " | ".join(header) + " |")
         lines.append("|" + "|".join("---" for _ in header) + "|")
@@ -60,10 +66,17 @@ def worksheet_text(answer: dict, markdown: bool) -> str:
     lines += [f"- [{_mark(k['ok'])}] {k['message']}" for k in r["checks"]]
     for row in r["rows"]:
         lines += [f"- [{_mark(k['ok'])}] {row['name']}: {k['message']}" for k in row["checks"] if not k["ok"]]
+    aliquots = [row for row in r["rows"] if row["measure"]["aliquot"]]
+    if aliquots:
+        lines += ["", f"{h2}Aliquots", ""]
+        for row in aliquots:
+            a = row["measure"]["aliquot"]
+            lines += [f"- {row['name']}, {row['mass_g_unrounded']:.6g} g wanted, below the minimum weighable quantity:"]
+            lines += [f"  {n}. {step}" for n, step in enumerate(a["steps"], 1)]
     b = r["equipment"]["balance"]
     lines += ["", f"{h2}Equipment", "",
               f"- Balance: sensitivity {b['sensitivity_g'] * 1000:g} mg, acceptable error {b['acceptable_error_percent']:g} %, "
-              f"readability {b['readability_g'] * 1000:g} mg; minimum weighable quantity {b['minimum_weighable_quantity_g'] * 1000:g} mg",
+              f"readability {b['readability_g'] * 1000:g} mg, capacity {b['capacity_g']:g} g; minimum weighable quantity {b['minimum_weighable_quantity_g'] * 1000:g} mg",
               "- Graduates: " + ", ".join(f"{g['capacity_ml']:g} mL" for g in r["equipment"]["graduates"])]
     lines += [f"- Assumed: {d}" for d in r["equipment"]["defaults_assumed"]]
     lines += ["", f"{h2}Warnings", ""] + [f"- {w['message']}" for w in answer["warnings"]]

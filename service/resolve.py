@@ -62,9 +62,15 @@ def resolve(ref: dict, path: tuple, registry: Registry) -> Resolved:
                     inline=inline, density_override=override, path=path)
 
 
+def spans(ing: Ingredient, prop: str) -> tuple[tuple[float, float], tuple[float, float] | None]:
+    """The span of a property's current values with those flagged doubtful
+    left out (the documented rule), and the span with them where any are."""
+    return ing.span_without_doubtful(prop), (ing.span(prop) if ing.has_doubtful(prop) else None)
+
+
 def _registry_value(item: Resolved, record: ValueRecord, registry: Registry, unit: str | None) -> dict:
     ing = item.record
-    span = ing.span(record.property)
+    span, wide = spans(ing, record.property)
     source = registry.sources[record.source_id]
     return {
         "ingredient": item.ingredient_id, "name": item.name, "property": record.property, "pointer": pointer(item.path),
@@ -73,6 +79,7 @@ def _registry_value(item: Resolved, record: ValueRecord, registry: Registry, uni
         "locator": record.locator, "kind": record.kind, "status": record.status, "local": record.local,
         "recalled_from_memory": record.recalled_from_memory,
         "sources_disagree": len(ing.comparable(record.property)) > 1, "note": record.note,
+        "range_with_doubtful": {"low": wide[0], "high": wide[1]} if wide else None,
     }
 
 
@@ -81,7 +88,7 @@ def _caller_value(item: Resolved, prop: str, figure: float, unit: str | None) ->
         "ingredient": item.ingredient_id, "name": item.name, "property": prop, "pointer": pointer(item.path), "figure": figure,
         "low": figure, "high": figure, "unit": unit, "origin": "caller", "source": None, "locator": None, "kind": None,
         "status": "caller_supplied", "local": False, "recalled_from_memory": False, "sources_disagree": False,
-        "note": "Supplied in the request; its provenance is the caller's.",
+        "note": "Supplied in the request; its provenance is the caller's.", "range_with_doubtful": None,
     }
 
 
@@ -96,8 +103,8 @@ def scalar_value(item: Resolved, prop: str, inline_key: str, registry: Registry)
     record = item.record.preferred(prop)
     if record is None:
         return None
-    low, high = item.record.span(prop)
-    return HlbValue(record.figure, low, high), _registry_value(item, record, registry, None)
+    (low, high), wide = spans(item.record, prop)
+    return HlbValue(record.figure, low, high, wide), _registry_value(item, record, registry, None)
 
 
 def density_value(item: Resolved, registry: Registry) -> tuple[float, dict] | None:

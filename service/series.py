@@ -53,9 +53,10 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
         out_rows = []
         for row, m in zip(rows, masses):
             density = row_density(row, registry, values_used, strict) if row.item.physical_state in ("liquid", None) else None
-            measure, checks, _ = measure_row(row, m.mass_g, density, balance, graduates)
+            measure, checks, _ = measure_row(row, m, density, balance, graduates)
             out_rows.append({"ingredient": row.item.ingredient_id, "name": row.item.name, "role": row.role, "percent_w_w": m.percent_w_w,
-                             "mass_g": m.mass_g, "measure": measure,
+                             "mass_g_unrounded": m.mass_g_unrounded, "mass_g": m.mass_g, "rounding_error_percent": m.rounding_error_percent,
+                             "measure": measure,
                              "checks": [{"code": k.code, "ok": k.ok, "message": k.message} for k in checks]})
         tests.append({"test": n, "hlb": round(point.hlb, 4), "percent_high_in_blend": point.share_high * 100.0, "rows": out_rows,
                       "all_measurable": all(k["ok"] for row in out_rows for k in row["checks"])})

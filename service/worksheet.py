@@ -7,17 +7,18 @@ from dataclasses import dataclass, field
 
 from registry import Registry
 from service import methods
-from service.answers import envelope, hlb_display
+from service.answers import envelope, hlb_display, hlb_span_display, unrounded
 from service.core import findings as core_findings
 from service.core.amounts import Amount
 from service.core.batch import mixture_mass_for_volume, qs_percent, rows_for_batch
 from service.core.errors import CalculationError
+from service.core.measure import capacity_check
 from service.core.required_hlb import required_hlb
 from service.equipment import equipment_from, equipment_out
 from service.lookups import enforce_strict, hlb_ranges, required_value
 from service.notices import apparent_hlb_warning, finding_warnings
-from service.emulsifier_system import emulsifier_rows
-from service.resolve import RHLB_PROPERTY, invalid, resolve
+from service.emulsifier_system import DISPERSED, emulsifier_rows
+from service.resolve import RHLB_PROPERTY, density_value, invalid, resolve
 from service.rows import Row, measure_row, row_density
 from service.units import from_canonical, to_canonical
 
@@ -149,9 +150,11 @@ def _global_checks(data, c: Computed, registry: Registry) -> list[dict]:
     low, high = hlb_ranges(registry)[core_findings.RANGE_FOR_EMULSION_TYPE[etype]]
     out.append({"code": "hlb_suits_emulsion_type", "ok": finding is None, "subject": "emulsifier",
                 "message": finding.message if finding else f"blend HLB {reached:.1f} lies in the range usual for {etype} emulsifiers, {low:g} to {high:g}"})
-    diff = reached - c.rhlb.required_hlb.figure
+    # Against the required HLB as printed, which is what the pair was solved for.
+    required = hlb_display(c.rhlb.required_hlb.figure)
+    diff = reached - required
     out.append({"code": "blend_matches_required_hlb", "ok": abs(diff) <= HLB_MATCH_TOLERANCE, "subject": "emulsifier",
-                "message": f"blend HLB {reached:.1f} against the oil phase's required HLB {c.rhlb.required_hlb.figure:.1f} (difference {diff:+.1f})"})
+                "message": f"blend HLB {reached:.1f} against the oil phase's required HLB {required:.1f} (difference {diff:+.1f})"})
     emulsifiers = [r for r in c.rows if r.role == "emulsifier"]
     classes = [r.item.ionic_class for r in emulsifiers] + [r.item.ionic_class for r in c.rows if r.role != "emulsifier" and r.item.ionic_class in ("anionic", "cationic")]
     ionic = core_findings.ionic_findings(classes)
@@ -171,6 +174,30 @@ def _global_checks(data, c: Computed, registry: Registry) -> list[dict]:
     return out
 
 
+def _dispersed_fraction(data: dict, c: Computed, registry: Registry) -> tuple[float, str]:
+    """The dispersed phase's volume fraction where every density is known,
+    else its mass fraction (said so in the basis)."""
+    dispersed = DISPERSED[data["emulsion_type"]]
+    inside = [r.phase == dispersed for r in c.rows]
+    densities = [density_value(r.item, registry) for r in c.rows]
+    mass_fraction = sum(r.percent for r, d in zip(c.rows, inside) if d) / 100.0
+    if any(d is None for d in densities):
+        return mass_fraction, "by mass: not every density is known"
+    volumes = [r.percent / d[0] for r, d in zip(c.rows, densities)]
+    return sum(v for v, d in zip(volumes, inside) if d) / sum(volumes), "by volume, volumes assumed additive"
+
+
+def _row_out(row: Row, b, measure: dict, checks, volume, mass_unit: str, volume_unit: str) -> dict:
+    return {
+        "ingredient": row.item.ingredient_id, "name": row.item.name, "phase": row.phase, "role": row.role,
+        "physical_state": row.item.physical_state, "percent_w_w": b.percent_w_w, "mass_g_unrounded": b.mass_g_unrounded,
+        "mass_g": b.mass_g, "rounding_error_percent": b.rounding_error_percent,
+        "mass": _display(b.mass_g, mass_unit), "volume_ml": volume,
+        "volume": _display(volume, volume_unit) if volume is not None else None,
+        "measure": measure, "checks": [{"code": k.code, "ok": k.ok, "message": k.message} for k in checks],
+    }
+
+
 def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_from: dict | None = None) -> dict:
     c = compute(data, registry, strict)
     balance, graduates, defaults = equipment_from(data.get("equipment", {}))
@@ -182,37 +209,47 @@ def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_fro
     for row, b in zip(c.rows, batch_rows):
         liquid = row.item.physical_state in ("liquid", None)
         density = row_density(row, registry, c.values_used, strict) if liquid else None
-        measure, checks, volume = measure_row(row, b.mass_g, density, balance, graduates)
-        out_rows.append({
-            "ingredient": row.item.ingredient_id, "name": row.item.name, "phase": row.phase, "role": row.role,
-            "physical_state": row.item.physical_state, "percent_w_w": b.percent_w_w, "mass_g": b.mass_g,
-            "mass": _display(b.mass_g, mass_unit), "volume_ml": volume,
-            "volume": _display(volume, volume_unit) if volume is not None else None,
-            "measure": measure, "checks": [{"code": k.code, "ok": k.ok, "message": k.message} for k in checks],
-        })
+        measure, checks, volume = measure_row(row, b, density, balance, graduates)
+        out_rows.append(_row_out(row, b, measure, checks, volume, mass_unit, volume_unit))
     total_mass = sum(b.mass_g for b in batch_rows)
     checks = _global_checks(data, c, registry)
     checks.append({"code": "totals_add_up", "ok": abs(total_mass - c.batch_mass_g) < 1e-6, "subject": None,
                    "message": f"the masses add up to {total_mass:.6g} g for a batch of {c.batch_mass_g:.6g} g"})
+    capacity = capacity_check(c.batch_mass_g, balance.capacity_g)
+    checks.append({"code": "batch_within_balance_capacity", "ok": capacity.ok, "subject": None,
+                   "message": f"the whole batch, made up to weight: {capacity.message}"})
+    fraction, basis = _dispersed_fraction(data, c, registry)
+    phase = core_findings.phase_volume_findings(fraction, basis)
+    packing = next((f for f in phase if f.code == "dispersed_phase_above_packing_limit"), None)
+    checks.append({"code": "dispersed_phase_volume", "ok": packing is None, "subject": "dispersed_phase",
+                   "message": packing.message if packing else f"the dispersed phase is {fraction * 100:.1f} % of the emulsion ({basis}), "
+                   f"below the {core_findings.MAX_PACKING_FRACTION * 100:.1f} % uniform spheres can fill"})
     warnings = c.warnings + finding_warnings(core_findings.ionic_findings([r.item.ionic_class for r in c.rows if r.role == "emulsifier"]))
+    warnings += finding_warnings(f for f in phase if f is not packing)
     warnings += apparent_hlb_warning(r.item.label for r in c.rows if r.item.hlb_is_apparent)
     warnings += [{"code": f"check_{k['code']}", "subject": k["subject"], "message": k["message"]} for k in checks if not k["ok"]]
     for row in out_rows:
         for k in row["checks"]:
             if not k["ok"]:
                 warnings.append({"code": f"check_{k['code']}", "subject": row["ingredient"] or row["name"], "message": k["message"]})
+    failed = sum(not k["ok"] for k in checks) + sum(not k["ok"] for row in out_rows for k in row["checks"])
     emulsifier = {k: v for k, v in c.emulsifier.items() if not k.startswith("_")}
     result = {
         "emulsion_type": data["emulsion_type"], "batch_mass_g": c.batch_mass_g, "batch_volume_ml": c.batch_volume_ml,
+        "checks_failed": failed,
         "oil_phase": {"required_hlb": hlb_display(c.rhlb.required_hlb.figure),
+                      "required_hlb_unrounded": unrounded(c.rhlb.required_hlb.figure),
                       "range": {"low": hlb_display(c.rhlb.required_hlb.low), "high": hlb_display(c.rhlb.required_hlb.high)},
+                      "range_with_doubtful": hlb_span_display(c.rhlb.range_with_doubtful),
                       "percent_w_w": sum(r.percent for r in c.rows if r.phase == "oil")},
+        "dispersed_phase": {"fraction": fraction, "basis": basis},
         "emulsifier": emulsifier, "rows": out_rows,
-        "totals": {"percent_w_w": sum(b.percent_w_w for b in batch_rows), "mass_g": total_mass, "batch_mass_g": c.batch_mass_g},
+        "totals": {"percent_w_w": total_mass / c.batch_mass_g * 100.0, "mass_g": total_mass, "batch_mass_g": c.batch_mass_g},
         "equipment": equipment_out(balance, graduates, defaults),
         "checks": checks, "rescaled_from": rescaled_from,
     }
-    return envelope(result, {"request": copy.deepcopy(data)}, methods.WORKSHEET, c.values_used, warnings, registry,
+    method = methods.WORKSHEET_WITH_ESTIMATE if c.emulsifier["minimum_estimate_g_per_100g"] is not None else methods.WORKSHEET
+    return envelope(result, {"request": copy.deepcopy(data)}, method, c.values_used, warnings, registry,
                     strict=strict, extra_cautions=methods.WORKSHEET_CAUTIONS)
 
 

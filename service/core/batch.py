@@ -5,7 +5,7 @@ from dataclasses import dataclass
 from typing import Sequence
 
 from service.core.errors import CalculationError
-from service.core.measure import round_to
+from service.core.measure import relative_error_percent, round_to
 
 # A q.s. vehicle must be a real part of the formula, not a rounding residue.
 MIN_QS_PERCENT = 0.01
@@ -13,8 +13,17 @@ MIN_QS_PERCENT = 0.01
 
 @dataclass(frozen=True)
 class BatchRow:
+    """`mass_g` is rounded to the balance; checks run on `mass_g_unrounded`.
+    For the q.s. vehicle `percent_w_w` is the share its rounded mass takes,
+    so that its % and its mass agree."""
+
     percent_w_w: float
+    mass_g_unrounded: float
     mass_g: float
+
+    @property
+    def rounding_error_percent(self) -> float:
+        return relative_error_percent(self.mass_g_unrounded, self.mass_g)
 
 
 def qs_percent(percents: Sequence[float | None], qs_index: int, path: tuple) -> float:
@@ -43,7 +52,8 @@ def mixture_mass_for_volume(volume_ml: float, fractions: Sequence[float], densit
 def rows_for_batch(percents: Sequence[float], batch_mass_g: float, qs_index: int, increment_g: float) -> list[BatchRow]:
     """Masses rounded to the balance increment; the q.s. vehicle takes the
     rounding residue, so the masses add up to the batch exactly."""
-    rows = [BatchRow(p, round_to(p / 100.0 * batch_mass_g, increment_g)) for p in percents]
+    rows = [BatchRow(p, p / 100.0 * batch_mass_g, round_to(p / 100.0 * batch_mass_g, increment_g)) for p in percents]
     others = sum(r.mass_g for i, r in enumerate(rows) if i != qs_index)
-    rows[qs_index] = BatchRow(percents[qs_index], round(batch_mass_g - others, 10))
+    qs_mass_g = round(batch_mass_g - others, 10)
+    rows[qs_index] = BatchRow(qs_mass_g / batch_mass_g * 100.0, rows[qs_index].mass_g_unrounded, qs_mass_g)
     return rows

@@ -11,11 +11,14 @@ from service.core.mixing import Mean, Term, weighted_mean
 
 @dataclass(frozen=True)
 class HlbValue:
-    """A property's preferred figure and the span its sources give."""
+    """A property's preferred figure and the span its sources give, doubtful
+    values left out; `with_doubtful` is the span with them, None when the
+    registry flags none."""
 
     figure: float
     low: float
     high: float
+    with_doubtful: tuple[float, float] | None = None
 
 
 @dataclass(frozen=True)

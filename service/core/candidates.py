@@ -11,8 +11,13 @@ from dataclasses import dataclass
 from itertools import combinations
 from typing import Sequence
 
-RULE = ("one fatty-chain family first; then balanced proportions (shares nearest 50:50, in 10 % steps); "
-        "then nonionic pairs before pairs with an ionic member; anionic with cationic never")
+RULE = ("with an oil phase whose fatty chain the registry knows, pairs of that chain first; then one fatty-chain family; "
+        "then balanced proportions (shares nearest 50:50, in 10 % steps); then nonionic pairs before pairs with an ionic member; "
+        "anionic with cationic never")
+# A single surfactant within this of the target meets it on its own: HLB
+# values are given to 0.1 and are no better than about half a unit
+# (common practice, no source).
+SINGLE_TOLERANCE_HLB = 0.5
 
 
 @dataclass(frozen=True)
@@ -28,10 +33,15 @@ class Pair:
     low: Surfactant
     high: Surfactant
     share_high: float  # mass fraction of the higher-HLB surfactant
+    oil_chain: str | None = None  # the oil phase's fatty chain, where known
 
     @property
     def same_chain(self) -> bool:
         return self.low.fatty_chain is not None and self.low.fatty_chain == self.high.fatty_chain
+
+    @property
+    def matches_oil(self) -> bool:
+        return self.same_chain and self.oil_chain is not None and self.low.fatty_chain == self.oil_chain
 
     @property
     def ionic_members(self) -> int:
@@ -39,12 +49,19 @@ class Pair:
 
     def rank_key(self) -> tuple:
         imbalance = abs(self.share_high - 0.5)
-        return (not self.same_chain, round(imbalance * 10), self.ionic_members, imbalance, self.low.id, self.high.id)
+        return (not self.matches_oil, not self.same_chain, round(imbalance * 10), self.ionic_members, imbalance, self.low.id, self.high.id)
 
 
-def candidate_pairs(target_hlb: float, surfactants: Sequence[Surfactant]) -> list[Pair]:
+def single_surfactants(target_hlb: float, surfactants: Sequence[Surfactant]) -> list[Surfactant]:
+    """Surfactants that meet the target on their own (within
+    SINGLE_TOLERANCE_HLB), nearest first."""
+    near = [s for s in surfactants if abs(s.hlb - target_hlb) <= SINGLE_TOLERANCE_HLB + 1e-9]
+    return sorted(near, key=lambda s: (abs(s.hlb - target_hlb), s.ionic_class != "nonionic", s.id))
+
+
+def candidate_pairs(target_hlb: float, surfactants: Sequence[Surfactant], oil_chain: str | None = None) -> list[Pair]:
     """Every pair with one HLB below and one above the target (or equal to
-    it), ranked by RULE."""
+    it), ranked by RULE; `oil_chain` is the oil phase's fatty chain."""
     pairs = []
     for a, b in combinations(surfactants, 2):
         low, high = (a, b) if a.hlb <= b.hlb else (b, a)
@@ -52,5 +69,5 @@ def candidate_pairs(target_hlb: float, surfactants: Sequence[Surfactant]) -> lis
             continue
         if {low.ionic_class, high.ionic_class} == {"anionic", "cationic"}:
             continue
-        pairs.append(Pair(low, high, (target_hlb - low.hlb) / (high.hlb - low.hlb)))
+        pairs.append(Pair(low, high, (target_hlb - low.hlb) / (high.hlb - low.hlb), oil_chain))
     return sorted(pairs, key=Pair.rank_key)

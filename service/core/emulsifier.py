@@ -12,9 +12,18 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from service.core.errors import CalculationError
-from service.core.findings import ceil_to
+from service.core.findings import Finding, ceil_to
 
 RHLB_SINGULAR = 20.0
+# An estimate above the highest usual level of use is warned about; one above
+# this multiple of it (and never above the whole emulsion) cannot be a
+# formula and is refused. The usual levels are registry data with a source.
+CEILING_MULTIPLE_OF_USUAL = 2.0
+# The continuous-phase term 4·Q/1000 adds at most 0.4 g per 100 g over the
+# whole range of Q: the estimate hardly depends on the oil/water ratio.
+OIL_LOAD_NOTE = ("the estimate is nearly insensitive to the oil/water ratio: its continuous-phase term, 4·Q/1000, adds at most "
+                 "0.4 g per 100 g between Q = 0 and Q = 100, so it does not scale with the oil load; the required HLB and the "
+                 "densities decide it")
 
 
 @dataclass(frozen=True)
@@ -38,3 +47,25 @@ def minimum_emulsifier(
         raise CalculationError(("continuous_phase_percent",), "between_0_and_100", "the continuous phase must be more than 0 and less than 100 % of the emulsion")
     qs = 6.0 * (surfactant_density_g_per_ml / dispersed_density_g_per_ml) / (10.0 - 0.5 * required_hlb) + 4.0 * continuous_phase_percent / 1000.0
     return MinimumEmulsifier(qs, ceil_to(qs, rounding_increment_g_per_100g))
+
+
+def estimate_limits(usual_high_percent: float) -> tuple[float, float]:
+    """(warning threshold, refusal ceiling) in g per 100 g, from the highest
+    usual emulsifier level (% w/w)."""
+    return usual_high_percent, min(100.0, CEILING_MULTIPLE_OF_USUAL * usual_high_percent)
+
+
+def plausibility_finding(g_per_100g: float, usual_high_percent: float, path: tuple) -> Finding | None:
+    """Refuses an estimate that cannot be a formula (above the ceiling of
+    `estimate_limits`); a finding when it is above the usual levels."""
+    warn_at, ceiling = estimate_limits(usual_high_percent)
+    if g_per_100g > ceiling:
+        raise CalculationError(path, "estimate_plausible",
+                               f"the estimate is {g_per_100g:.3g} g per 100 g of emulsion, above the ceiling of {ceiling:g} g "
+                               f"(twice the highest usual emulsifier level, {usual_high_percent:g} %): it cannot be a formula. A required "
+                               "HLB this close to 20 is outside what the formula can estimate; find the emulsifier level by bench trial")
+    if g_per_100g > warn_at:
+        return Finding("estimate_above_usual_levels",
+                       f"the estimate, {g_per_100g:.3g} g per 100 g, is above the highest usual emulsifier level of {usual_high_percent:g} %: "
+                       "treat it with suspicion and confirm the level by bench trial", "estimate")
+    return None

@@ -21,9 +21,12 @@ MIN_GRADUATE_VOLUME_ML = 1.0
 
 @dataclass(frozen=True)
 class Balance:
+    """`capacity_g` None: no capacity is checked."""
+
     sensitivity_g: float
     acceptable_error_percent: float
     readability_g: float
+    capacity_g: float | None = None
 
     @property
     def minimum_weighable_g(self) -> float:
@@ -56,13 +59,42 @@ def round_to(value: float, increment: float) -> float:
 
 
 def weighing_checks(mass_g: float, balance: Balance, solid: bool) -> list[Check]:
+    """The minimum weighable quantity and the capacity, checked on the
+    unrounded mass: a rounded figure can cross the limit the true one does not."""
     mwq = balance.minimum_weighable_g
     if mass_g >= mwq:
-        return [Check("minimum_weighable_quantity", True, f"{mass_g:g} g is at or above the minimum weighable quantity, {mwq:g} g")]
-    remedy = "trituration" if solid else "an aliquot method"
-    return [Check("minimum_weighable_quantity", False,
-                  f"{mass_g:g} g is below the minimum weighable quantity of {mwq:g} g (sensitivity {balance.sensitivity_g * 1000:g} mg at "
-                  f"{balance.acceptable_error_percent:g} % error): use {remedy}, or a finer balance")]
+        checks = [Check("minimum_weighable_quantity", True, f"{mass_g:.6g} g is at or above the minimum weighable quantity, {mwq:g} g")]
+    else:
+        remedy = "trituration with an inert diluent (aliquot method)" if solid else "an aliquot method (dilution with a miscible solvent)"
+        checks = [Check("minimum_weighable_quantity", False,
+                        f"{mass_g:.6g} g is below the minimum weighable quantity of {mwq:g} g (sensitivity {balance.sensitivity_g * 1000:g} mg at "
+                        f"{balance.acceptable_error_percent:g} % error): use {remedy}, or a finer balance")]
+    if balance.capacity_g is not None:
+        checks.append(capacity_check(mass_g, balance.capacity_g))
+    return checks
+
+
+def capacity_check(mass_g: float, capacity_g: float) -> Check:
+    if mass_g <= capacity_g:
+        return Check("balance_capacity", True, f"{mass_g:.6g} g is within the balance's capacity of {capacity_g:g} g")
+    return Check("balance_capacity", False, f"{mass_g:.6g} g is above the balance's capacity of {capacity_g:g} g: "
+                                            "weigh it on a larger balance, or in portions")
+
+
+def relative_error_percent(unrounded: float, rounded: float) -> float:
+    """(rounded - unrounded) / unrounded, in %; 0 for a zero amount."""
+    return (rounded - unrounded) / unrounded * 100.0 if unrounded else 0.0
+
+
+def rounding_check(unrounded: float, rounded: float, acceptable_error_percent: float, unit: str, what: str) -> Check:
+    """A figure rounded to what the equipment reads may be further from the
+    amount the formula asks for than the acceptable error: flag it."""
+    error = relative_error_percent(unrounded, rounded)
+    if abs(error) <= acceptable_error_percent + 1e-9:
+        return Check("rounding_error", True, f"{what} {rounded:g} {unit} for {unrounded:.6g} {unit} ({error:+.2f} %), within "
+                                             f"the acceptable {acceptable_error_percent:g} %")
+    return Check("rounding_error", False, f"{what} {rounded:g} {unit} is {error:+.1f} % off the {unrounded:.6g} {unit} the formula asks for, "
+                                          f"more than the acceptable {acceptable_error_percent:g} %: use a finer balance or measure, or an aliquot method")
 
 
 def choose_graduate(volume_ml: float, graduates: Sequence[Graduate]) -> tuple[Graduate | None, list[Check]]:

@@ -23,6 +23,9 @@ class OilPhase:
     phase_fractions: tuple[float, ...]
     counted_fractions: tuple[float, ...]
     total_mass_g: float | None
+    # The span of the mean with the values flagged doubtful put back; None
+    # when no counted value has any.
+    range_with_doubtful: tuple[float, float] | None = None
 
 
 def required_hlb(
@@ -46,4 +49,9 @@ def required_hlb(
     for i, fraction in zip(counted, mean.fractions):
         counted_fractions[i] = fraction
     total = sum(w.mass_g for w in weighed) if weighed[0].mass_g is not None else None
-    return OilPhase(mean, tuple(weighed), tuple(w.weight / total_weight for w in weighed), tuple(counted_fractions), total)
+    wide = None
+    if any(rhlbs[i].with_doubtful for i in counted):
+        spans = [rhlbs[i].with_doubtful or (rhlbs[i].low, rhlbs[i].high) for i in counted]
+        widened = weighted_mean([Term(weighed[i].weight, rhlbs[i].figure, lo, hi) for i, (lo, hi) in zip(counted, spans)])
+        wide = (widened.low, widened.high)
+    return OilPhase(mean, tuple(weighed), tuple(w.weight / total_weight for w in weighed), tuple(counted_fractions), total, wide)

@@ -41,6 +41,8 @@ class ValueUsedSchema(Schema):
     recalled_from_memory = fields.Boolean(required=True)
     sources_disagree = fields.Boolean(required=True)
     note = NullableString(required=True)
+    range_with_doubtful = fields.Nested("RangeSchema", required=True, allow_none=True, metadata={
+        "description": "low and high leave out values the registry flags doubtful; this is the span with them, null when there are none."})
 
 
 class WarningSchema(Schema):
@@ -141,7 +143,8 @@ class OilInputSchema(ComponentInputSchema):
 class RequiredHlbResultSchema(Schema):
     required_hlb = fields.Float(required=True, metadata={"description": "Rounded to 0.1."})
     required_hlb_unrounded = fields.Float(required=True, metadata={"description": "Before display rounding, to 6 decimals."})
-    range = fields.Nested(RangeSchema, required=True, metadata={"description": "What the result spans across every source's values."})
+    range = fields.Nested(RangeSchema, required=True, metadata={"description": "What the result spans across every source's values, values flagged doubtful left out."})
+    range_with_doubtful = fields.Nested(RangeSchema, required=True, allow_none=True, metadata={"description": "The span with the doubtful values put back; null when none was used."})
     emulsion_type = fields.String(required=True)
     oil_phase_mass_g = NullableNumber(required=True)
 
@@ -159,9 +162,17 @@ class BatchEmulsifierSchema(Schema):
     minimum_weighable_quantity_g = fields.Float(required=True)
 
 
+class EstimateLimitsSchema(Schema):
+    warning_above = fields.Float(required=True, metadata={"description": "The highest usual emulsifier level the registry holds, % w/w."})
+    refused_above = fields.Float(required=True, metadata={"description": "Twice that, and never above 100: an estimate above it is refused."})
+
+
 class MinimumEmulsifierResultSchema(Schema):
     g_per_100g = fields.Float(required=True, metadata={"description": "The estimate, read as grams of emulsifier per 100 g of emulsion (% w/w)."})
     g_per_100g_rounded_up = fields.Float(required=True, metadata={"description": "Rounded up to 0.1 g."})
+    continuous_phase_term_g_per_100g = fields.Float(required=True, metadata={"description": "The part 4·Q/1000 contributes: at most 0.4."})
+    oil_load_note = fields.String(required=True)
+    limits_g_per_100g = fields.Nested(EstimateLimitsSchema, required=True)
     basis = fields.String(required=True)
     batch = fields.Nested(BatchEmulsifierSchema, allow_none=True, required=True)
 

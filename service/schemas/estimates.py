@@ -132,7 +132,9 @@ class SeriesRowSchema(Schema):
     name = fields.String(required=True)
     role = fields.String(required=True)
     percent_w_w = fields.Float(required=True)
+    mass_g_unrounded = fields.Float(required=True)
     mass_g = fields.Float(required=True)
+    rounding_error_percent = fields.Float(required=True)
     measure = fields.Nested(MeasureSchema, required=True)
     checks = fields.List(fields.Nested(CheckSchema), required=True)
 

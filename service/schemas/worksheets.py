@@ -31,14 +31,18 @@ class FixedEmulsifierSchema(IngredientRefSchema):
 
 
 class MinimumEstimateSchema(Schema):
-    margin_percent = Number(minimum=0, maximum=500, metadata={"description": "Added to the estimate, % of it. Default 0."})
+    margin_percent = Number(minimum=0, maximum=500, metadata={"description": "Added to the estimate, % of it. Default 25 (the estimate is a rough lower bound); the answer says when the default was used."})
     surfactant_density = fields.Nested(DensitySchema, metadata={"description": "Density of the surfactant blend; default from the pair's densities."})
     dispersed_phase_density = fields.Nested(DensitySchema, metadata={"description": "Default from the dispersed phase's densities."})
+
+
+OFF_SCALE_DESCRIPTION = "true also considers surfactants with an HLB above 20, off Griffin's nonionic scale (the poloxamers); default false."
 
 
 class ProposeSchema(Schema):
     ionic_classes = fields.List(one_of(IONIC_CLASSES), validate=validate.Length(min=1, max=4),
                                 metadata={"description": "Allowed ionic classes of the pair's members. Default nonionic only."})
+    include_off_scale_hlb = Boolean(metadata={"description": OFF_SCALE_DESCRIPTION})
 
 
 class EmulsifierSchema(Schema):
@@ -84,6 +88,7 @@ class WorksheetBalanceSchema(Schema):
     sensitivity = fields.Nested(MassSchema, metadata={"description": "Default 6 mg (Class A prescription balance)."})
     acceptable_error_percent = Number(minimum=0.1, maximum=50, metadata={"description": "Default 5."})
     readability = fields.Nested(MassSchema, metadata={"description": "What the balance reads to; masses are rounded to it. Default 10 mg."})
+    capacity = fields.Nested(MassSchema, metadata={"description": "The largest load it weighs; a heavier row, or a batch made up to weight on it, is flagged. Default 120 g (Class A prescription balance)."})
 
 
 class EquipmentSchema(Schema):
@@ -119,6 +124,7 @@ class CandidateRequestSchema(Schema):
                             metadata={"description": "Instead of target_hlb: the oil phase whose required HLB is the target."})
     ionic_classes = fields.List(one_of(IONIC_CLASSES), validate=validate.Length(min=1, max=4), metadata={"description": "Default nonionic only."})
     limit = Integer(minimum=1, maximum=50, metadata={"description": "Default 10."})
+    include_off_scale_hlb = Boolean(metadata={"description": OFF_SCALE_DESCRIPTION})
     strict = Boolean()
 
     @validates_schema
@@ -140,10 +146,24 @@ class GlobalCheckSchema(CheckSchema):
     subject = fields.String(required=True, allow_none=True)
 
 
+class AliquotSchema(Schema):
+    factor = fields.Integer(required=True, metadata={"description": "The multiple of the amount wanted that is weighed."})
+    substance_g = fields.Float(required=True, metadata={"description": "Weigh this much of the substance (at least the minimum weighable quantity)."})
+    diluent_g = fields.Float(required=True, metadata={"description": "Add this much diluent."})
+    mixture_g = fields.Float(required=True)
+    aliquot_g = fields.Float(required=True, metadata={"description": "Weigh this much of the mixture."})
+    delivered_g = fields.Float(required=True, metadata={"description": "The substance the aliquot holds."})
+    error_percent = fields.Float(required=True, metadata={"description": "delivered against wanted, %; 0 when the balance reads an exact multiple."})
+    diluent_in_aliquot_g = fields.Float(required=True, metadata={"description": "Diluent that goes into the batch with the aliquot."})
+    diluent = fields.String(required=True)
+    steps = fields.List(fields.String(), required=True)
+
+
 class MeasureSchema(Schema):
     how = fields.String(required=True, metadata={"description": "weigh, graduate, or pipette_or_syringe."})
     graduate_ml = fields.Float(required=True, allow_none=True)
     volume_ml_rounded = fields.Float(required=True, allow_none=True, metadata={"description": "Rounded to the graduate's subdivision."})
+    aliquot = fields.Nested(AliquotSchema, required=True, allow_none=True, metadata={"description": "For an amount below the minimum weighable quantity: the aliquot method worked out."})
     why = fields.String(required=True)
 
 
@@ -153,8 +173,10 @@ class WorksheetRowSchema(Schema):
     phase = fields.String(required=True)
     role = fields.String(required=True, metadata={"description": "ingredient, emulsifier, or qs."})
     physical_state = fields.String(required=True, allow_none=True)
-    percent_w_w = fields.Float(required=True)
+    percent_w_w = fields.Float(required=True, metadata={"description": "The formula's % w/w; for the q.s. vehicle, the share its rounded mass takes, so that the two agree."})
+    mass_g_unrounded = fields.Float(required=True, metadata={"description": "The formula's mass before rounding; every check runs on it."})
     mass_g = fields.Float(required=True, metadata={"description": "Rounded to the balance's readability; the q.s. vehicle takes the rounding residue."})
+    rounding_error_percent = fields.Float(required=True, metadata={"description": "(mass_g - mass_g_unrounded) / mass_g_unrounded, %; beyond the acceptable error it is flagged."})
     mass = fields.Nested(AmountOutSchema, required=True, metadata={"description": "The same mass in the unit asked."})
     volume_ml = fields.Float(required=True, allow_none=True)
     volume = fields.Nested(AmountOutSchema, required=True, allow_none=True)
@@ -174,8 +196,10 @@ class EmulsifierOutSchema(Schema):
 
 
 class OilPhaseOutSchema(Schema):
-    required_hlb = fields.Float(required=True)
-    range = fields.Nested(RangeSchema, required=True)
+    required_hlb = fields.Float(required=True, metadata={"description": "Rounded to 0.1: the figure the pair is solved for."})
+    required_hlb_unrounded = fields.Float(required=True)
+    range = fields.Nested(RangeSchema, required=True, metadata={"description": "Values flagged doubtful left out."})
+    range_with_doubtful = fields.Nested(RangeSchema, required=True, allow_none=True)
     percent_w_w = fields.Float(required=True)
 
 
@@ -183,6 +207,7 @@ class BalanceOutSchema(Schema):
     sensitivity_g = fields.Float(required=True)
     acceptable_error_percent = fields.Float(required=True)
     readability_g = fields.Float(required=True)
+    capacity_g = fields.Float(required=True)
     minimum_weighable_quantity_g = fields.Float(required=True)
 
 
@@ -198,8 +223,13 @@ class EquipmentOutSchema(Schema):
     defaults_assumed = fields.List(fields.String(), required=True)
 
 
+class DispersedPhaseSchema(Schema):
+    fraction = fields.Float(required=True, metadata={"description": "Share of the emulsion the dispersed phase takes, 0 to 1."})
+    basis = fields.String(required=True, metadata={"description": "By volume where every density is known, else by mass."})
+
+
 class TotalsSchema(Schema):
-    percent_w_w = fields.Float(required=True)
+    percent_w_w = fields.Float(required=True, metadata={"description": "The share of the batch the rounded masses make up."})
     mass_g = fields.Float(required=True)
     batch_mass_g = fields.Float(required=True)
 
@@ -208,7 +238,9 @@ class WorksheetResultSchema(Schema):
     emulsion_type = fields.String(required=True)
     batch_mass_g = fields.Float(required=True)
     batch_volume_ml = fields.Float(required=True, allow_none=True)
+    checks_failed = fields.Integer(required=True, metadata={"description": "How many checks failed, the worksheet's and every row's; the printed worksheet opens with a banner when any did."})
     oil_phase = fields.Nested(OilPhaseOutSchema, required=True)
+    dispersed_phase = fields.Nested(DispersedPhaseSchema, required=True)
     emulsifier = fields.Nested(EmulsifierOutSchema, required=True)
     rows = fields.List(fields.Nested(WorksheetRowSchema), required=True)
     totals = fields.Nested(TotalsSchema, required=True)
@@ -235,14 +267,23 @@ class CandidateSchema(Schema):
     low = fields.Nested(CandidateMemberSchema, required=True)
     high = fields.Nested(CandidateMemberSchema, required=True)
     same_fatty_chain = fields.Boolean(required=True)
+    matches_oil_chain = fields.Boolean(required=True, metadata={"description": "Both members share the oil phase's fatty chain."})
     ionic_members = fields.Integer(required=True)
+
+
+class SingleSurfactantSchema(CandidateMemberSchema):
+    difference_hlb = fields.Float(required=True, metadata={"description": "Its HLB less the target."})
 
 
 class CandidateResultSchema(Schema):
     target_hlb = fields.Float(required=True)
     rule = fields.String(required=True)
     considered = fields.Integer(required=True)
+    oil_fatty_chain = fields.String(required=True, allow_none=True, metadata={"description": "The oil phase's fatty chain where the registry can tell (more than half the oil phase by mass); null otherwise."})
     candidates = fields.List(fields.Nested(CandidateSchema), required=True)
+    single_surfactants = fields.List(fields.Nested(SingleSurfactantSchema), required=True,
+                                     metadata={"description": "Emulsifying agents that meet the target on their own, within single_tolerance_hlb."})
+    single_tolerance_hlb = fields.Float(required=True)
 
 
 class CandidateInputsSchema(Schema):
@@ -250,6 +291,7 @@ class CandidateInputsSchema(Schema):
     emulsion_type = fields.String(required=True, allow_none=True)
     ionic_classes = fields.List(fields.String(), required=True)
     limit = fields.Integer(required=True)
+    include_off_scale_hlb = fields.Boolean(required=True)
 
 
 WorksheetAnswerSchema = answer("WorksheetAnswer", WorksheetResultSchema, WorksheetInputsSchema)

@@ -130,11 +130,18 @@ def test_required_hlb_of_an_oil_phase(client, registry):
 
 
 def test_required_hlb_range_where_sources_disagree(client):
-    # Castor oil: 14 (textbook) against 6-7 (a weaker printing) -> range, flagged.
+    # Castor oil: 14 (textbook) against 6-7 (a weaker printing, flagged doubtful in
+    # the registry): by the documented rule the doubtful figure is left out of the
+    # range and shown beside it. Hand-computed: (14 + 10) / 2 = 12; with 6.5 (6-7): (6 + 10) / 2 = 8.
     body = client.post(RHLB, json={"emulsion_type": "O/W", "oil_phase": [comp("castor-oil", 50, "g"), comp("mineral-oil", 50, "g")]}).get_json()
     assert body["result"]["required_hlb"] == 12.0
-    assert body["result"]["range"] == {"low": 8.0, "high": 12.0}
-    assert "sources_disagree" in {w["code"] for w in body["warnings"]}
+    assert body["result"]["range"] == {"low": 12.0, "high": 12.0}
+    assert body["result"]["range_with_doubtful"] == {"low": 8.0, "high": 12.0}
+    castor = next(v for v in body["values_used"] if v["ingredient"] == "castor-oil")
+    assert (castor["low"], castor["high"], castor["range_with_doubtful"]) == (14.0, 14.0, {"low": 6.0, "high": 14.0})
+    assert {"sources_disagree", "doubtful_value_left_out"} <= {w["code"] for w in body["warnings"]}
+    clean = client.post(RHLB, json={"emulsion_type": "O/W", "oil_phase": [comp("mineral-oil", 50, "g")]}).get_json()
+    assert clean["result"]["range_with_doubtful"] is None
 
 
 def test_required_hlb_wo_and_missing_values(client):
