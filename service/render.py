@@ -33,7 +33,10 @@ def worksheet_text(answer: dict, markdown: bool) -> str:
     lines += [f"Registry {answer['registry']['version']}" + ("; strict mode" if answer["strict"] else ""), ""]
     oil, em = r["oil_phase"], r["emulsifier"]
     lines += [f"{h2}Emulsifier system", "",
-              f"- Oil phase {oil['percent_w_w']:.2f} % w/w; required HLB {oil['required_hlb']:.1f} (sources range {oil['range']['low']:.1f} to {oil['range']['high']:.1f})",
+              f"- Oil phase {oil['percent_w_w']:.2f} % w/w; required HLB {oil['required_hlb']:.1f} (sources range {oil['range']['low']:.1f} to {oil['range']['high']:.1f}"
+              + (f"; {oil['range_with_doubtful']['low']:.1f} to {oil['range_with_doubtful']['high']:.1f} with values flagged doubtful"
+                 if oil["range_with_doubtful"] else "") + ")",
+              f"- Dispersed phase {r['dispersed_phase']['fraction'] * 100:.1f} % of the emulsion ({r['dispersed_phase']['basis']})",
               f"- Surfactants: {', '.join(em['surfactants'])}" + (" (proposed by the service)" if em["proposed"] else ""),
               f"- Blend HLB reached {em['hlb_reached']:.1f}" + (f" for a target of {em['target_hlb']:.1f}" if em["target_hlb"] is not None else ""),
               f"- Emulsifier total {em['total_percent_w_w']:.2f} % w/w ({em['basis']})", ""]

@@ -9,9 +9,11 @@ from service.answers import envelope, hlb_display, unrounded
 from service.core.amounts import Amount, weigh
 from service.core.batch import rows_for_batch
 from service.core.errors import CalculationError
+from service.core.findings import phase_volume_findings
 from service.core.series import estimate_from_pass_fail, estimate_from_scores, finer_series, plan_points
 from service.equipment import equipment_from, equipment_out
 from service.lookups import enforce_strict, required_value
+from service.notices import finding_warnings
 from service.resolve import resolve
 from service.units import to_canonical
 from service.rows import Row, measure_row, row_density
@@ -60,7 +62,9 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
                              "checks": [{"code": k.code, "ok": k.ok, "message": k.message} for k in checks]})
         tests.append({"test": n, "hlb": round(point.hlb, 4), "percent_high_in_blend": point.share_high * 100.0, "rows": out_rows,
                       "all_measurable": all(k["ok"] for row in out_rows for k in row["checks"])})
-    warnings = []
+    # Densities are not known for every oil tried here: the share is by mass.
+    warnings = finding_warnings(phase_volume_findings(oil_pct / 100.0 if data["emulsion_type"] == "O/W" else 1.0 - (oil_pct + em_pct) / 100.0,
+                                                      "by mass"))
     bad = [t["test"] for t in tests if not t["all_measurable"]]
     if bad:
         warnings.append({"code": "not_all_measurable", "subject": ", ".join(map(str, bad)),

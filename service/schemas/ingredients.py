@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from marshmallow import Schema, ValidationError, fields, validates_schema
 
+from registry.model import FUNCTIONS
 from service.schemas.answers import CitationSchema, RegistryVersionSchema
 from service.schemas.fields import QueryNumber, one_of
 
@@ -14,6 +15,7 @@ IONIC_CLASSES = ("nonionic", "anionic", "cationic", "amphoteric", "not_applicabl
 class IngredientQuerySchema(Schema):
     role = one_of(ROLES)
     ionic_class = one_of(IONIC_CLASSES)
+    function = one_of(FUNCTIONS, metadata={"description": "Ingredients with this function in a formula (e.g. emulsifier)."})
     hlb_min = QueryNumber(minimum=0, maximum=60, metadata={"description": "Surfactants whose preferred HLB is at least this."})
     hlb_max = QueryNumber(minimum=0, maximum=60, metadata={"description": "Surfactants whose preferred HLB is at most this."})
 
@@ -44,6 +46,8 @@ class ValueRecordSchema(Schema):
     preferred = fields.Boolean(required=True)
     preferred_reason = fields.String(required=True, allow_none=True)
     midpoint_of_range = fields.Boolean(required=True)
+    doubtful = fields.Boolean(required=True, metadata={"description": "Flagged doubtful by the steward: never preferred, and left out of the ranges answers give."})
+    doubtful_reason = fields.String(required=True, allow_none=True)
     note = fields.String(required=True, allow_none=True)
     retired = fields.Boolean(required=True)
     retired_on = fields.String(required=True, allow_none=True)
@@ -65,6 +69,8 @@ class IngredientSummarySchema(Schema):
     roles = fields.List(fields.String(), required=True)
     ionic_class = fields.String(required=True)
     physical_state = fields.String(required=True)
+    functions = fields.List(fields.String(), required=True, metadata={"description": "What it does in a formula; only an `emulsifier` is proposed as one."})
+    fatty_chain = fields.String(required=True, allow_none=True)
     hlb = fields.Float(required=True, allow_none=True)
     required_hlb_ow = fields.Float(required=True, allow_none=True)
     required_hlb_wo = fields.Float(required=True, allow_none=True)
@@ -74,7 +80,19 @@ class IngredientSummarySchema(Schema):
     local = fields.Boolean(required=True, metadata={"description": "The record is, or has values, from the site overlay."})
 
 
+class FunctionsProvenanceSchema(Schema):
+    list = fields.List(fields.String(), required=True)
+    source = fields.Nested(CitationSchema, required=True)
+    locator = fields.String(required=True, allow_none=True)
+    status = fields.String(required=True)
+    recalled_from_memory = fields.Boolean(required=True)
+    reviewed_by = fields.String(required=True, allow_none=True)
+    reviewed_on = fields.String(required=True, allow_none=True)
+    note = fields.String(required=True, allow_none=True)
+
+
 class IngredientDetailSchema(IngredientSummarySchema):
+    functions_provenance = fields.Nested(FunctionsProvenanceSchema, required=True, allow_none=True, metadata={"description": "Where the functions come from."})
     synonyms = fields.List(fields.String(), required=True)
     molecular_formula = fields.String(required=True, allow_none=True)
     hlb_is_apparent = fields.Boolean(required=True)

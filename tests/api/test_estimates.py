@@ -118,3 +118,10 @@ def test_series_evaluate_with_the_pair_gives_proportions(client):
     # Hand-computed: HLB 10.1 from 4.3 and 15.0 is (10.1 - 4.3) / 10.7 = 54.2 % polysorbate 80.
     assert result["next_series_hlb"][2] == 10.1
     assert result["next_series_percent_high_in_blend"][2] == pytest.approx(5.8 / 10.7 * 100, abs=0.01)
+
+
+def test_series_plan_warns_on_a_crowded_dispersed_phase(client):
+    # Above about 60 % dispersed phase an emulsion is crowded (common practice, no source); by mass here.
+    body = client.post("/v1/required-hlb-series/plan", json=dict(PLAN, oil_percent=65, emulsifier_percent=5)).get_json()
+    assert "dispersed_phase_high" in {w["code"] for w in body["warnings"]}
+    assert "dispersed_phase_high" not in {w["code"] for w in client.post("/v1/required-hlb-series/plan", json=PLAN).get_json()["warnings"]}

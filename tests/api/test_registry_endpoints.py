@@ -68,3 +68,15 @@ def test_docs_page(client):
     assert r.status_code == 200 and r.mimetype == "text/html"
     html = r.get_data(as_text=True)
     assert "/v1/blends/hlb" in html and 'id="problem-invalid-input"' in html
+
+
+def test_functions_and_doubtful_values_are_shown(client):
+    opacifiers = client.get("/v1/ingredients?function=opacifier").get_json()
+    assert "ethylene-glycol-distearate" in [i["id"] for i in opacifiers["ingredients"]]
+    assert all("opacifier" in i["functions"] for i in opacifiers["ingredients"])
+    castor = client.get("/v1/ingredients/castor-oil").get_json()["ingredient"]
+    doubtful = [v for v in castor["values"]["required_hlb_ow"] if v["doubtful"]]
+    assert len(doubtful) == 1 and doubtful[0]["low"] == 6.0 and doubtful[0]["doubtful_reason"] and not doubtful[0]["preferred"]
+    provenance = castor["functions_provenance"]
+    assert provenance["list"] == castor["functions"] and provenance["source"]["id"] and provenance["status"] == "unverified"
+    assert client.get("/v1/ingredients?function=levitation").status_code == 422

@@ -150,3 +150,12 @@ def test_worksheet_solves_on_the_printed_required_hlb(client):
     assert body["result"]["oil_phase"]["required_hlb"] == 11.3
     assert body["result"]["oil_phase"]["required_hlb_unrounded"] == pytest.approx(11.275)
     assert rows(body)["Polysorbate 60"]["mass_g_unrounded"] == pytest.approx(6.6 / 10.2 * 5)
+
+
+def test_printed_worksheet_shows_the_range_with_doubtful_values(client):
+    sheet = copy.deepcopy(LOTION)
+    sheet["ingredients"][0] = {"ingredient": "castor-oil", "phase": "oil", "share": share(10)}
+    body = client.post(SHEET, json=sheet).get_json()
+    assert body["result"]["oil_phase"]["range_with_doubtful"] is not None
+    text = client.post(SHEET, json=sheet, headers={"Accept": "text/markdown"}).get_data(as_text=True)
+    assert "with values flagged doubtful" in text and "- Dispersed phase 20.0 % of the emulsion" in text
