@@ -65,7 +65,8 @@ def weighing_checks(mass_g: float, balance: Balance, solid: bool) -> list[Check]
     if mass_g >= mwq:
         checks = [Check("minimum_weighable_quantity", True, f"{mass_g:.6g} g is at or above the minimum weighable quantity, {mwq:g} g")]
     else:
-        remedy = "trituration with an inert diluent (aliquot method)" if solid else "an aliquot method (dilution with a miscible solvent)"
+        remedy = ("the aliquot method (a trituration, or a solution in part of the vehicle), worked out with the row" if solid
+                  else "the aliquot method (dilution with a miscible solvent), worked out with the row")
         checks = [Check("minimum_weighable_quantity", False,
                         f"{mass_g:.6g} g is below the minimum weighable quantity of {mwq:g} g (sensitivity {balance.sensitivity_g * 1000:g} mg at "
                         f"{balance.acceptable_error_percent:g} % error): use {remedy}, or a finer balance")]
