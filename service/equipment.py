@@ -11,8 +11,11 @@ from service.units import to_canonical
 DEFAULT_READABILITY_G = 0.01
 # A common set of cylindrical graduates (common practice, no source).
 DEFAULT_GRADUATES_ML = (10.0, 25.0, 50.0, 100.0, 250.0, 500.0, 1000.0)
-# Class A prescription balances are commonly built for loads up to 120 g
-# (common practice, no source read; see README "Equipment").
+# Class A (Class III) torsion prescription balances are commonly sold for
+# loads up to 120 g (common practice, no authoritative source found). NBS
+# Handbook 44 as quoted in USP 29 <1176> ("Capacity") assumes only 15.5 g
+# where nothing else is known: the README's methods table says both, and
+# every answer lists this default among the assumptions.
 DEFAULT_CAPACITY_G = 120.0
 # Graduates are commonly divided into about 50 parts (common practice, no source).
 DEFAULT_SUBDIVISIONS = 50.0
