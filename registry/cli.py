@@ -18,6 +18,7 @@ from pathlib import Path
 from typing import Sequence
 
 from registry import review
+from registry.coverage import hlb_coverage
 from registry.diff import diff_lines
 from registry.display import functions_lines, value_lines
 from registry.errors import RegistryError
@@ -163,6 +164,7 @@ def report_data(registry: Registry, hlb_threshold: float, density_threshold: flo
         "doubtful_values": [{"ingredient": ing.id, "property": prop, "source": r.source_id, "reason": r.doubtful_reason}
                             for ing in current for prop in ing.values for r in ing.active(prop) if r.doubtful],
         "disagreements": disagreements,
+        "hlb_coverage": hlb_coverage(registry).as_dict(),
         "thresholds": {"hlb": hlb_threshold, "density_g_per_ml": density_threshold},
     }
 
@@ -179,6 +181,10 @@ def cmd_report(args) -> int:
     _out("by status: " + ", ".join(f"{k} {v}" for k, v in data["by_status"].items()))
     _out("by kind: " + ", ".join(f"{k} {v}" for k, v in data["by_kind"].items()))
     _out(f"recalled from memory: {data['recalled_from_memory']}")
+    cov = data["hlb_coverage"]
+    _out(f"HLB and required-HLB figures in use ({cov['properties']}): read in their source with a locator {cov['read_in_source']} "
+         f"({cov['read_in_source_share']:.0%}), checked by computation {cov['by_computation']} ({cov['by_computation_share']:.0%}), "
+         f"unchecked {len(cov['unchecked'])}")
     for key, label in [("lacking_density", "lacking a density"), ("oil_phase_lacking_required_hlb_ow", "oil phase lacking an O/W required HLB"),
                        ("oil_phase_lacking_required_hlb_wo", "oil phase lacking a W/O required HLB"), ("surfactants_lacking_hlb", "surfactants lacking an HLB")]:
         _out(f"{label} ({len(data[key])}): {', '.join(data[key]) or 'none'}")
