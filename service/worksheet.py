@@ -174,16 +174,19 @@ def _global_checks(data, c: Computed, registry: Registry) -> list[dict]:
     return out
 
 
-def _dispersed_fraction(data: dict, c: Computed, registry: Registry) -> tuple[float, str]:
-    """The dispersed phase's volume fraction where every density is known,
-    else its mass fraction (said so in the basis)."""
+def _dispersed_fraction(data: dict, c: Computed, registry: Registry, strict: bool) -> tuple[float, str]:
+    """The dispersed phase's volume fraction where every density is known
+    (and, in strict mode, verified), else its mass fraction (said so in the
+    basis). Densities used are recorded in values_used."""
     dispersed = DISPERSED[data["emulsion_type"]]
     inside = [r.phase == dispersed for r in c.rows]
-    densities = [density_value(r.item, registry) for r in c.rows]
     mass_fraction = sum(r.percent for r, d in zip(c.rows, inside) if d) / 100.0
-    if any(d is None for d in densities):
+    if any(density_value(r.item, registry) is None for r in c.rows):
         return mass_fraction, "by mass: not every density is known"
-    volumes = [r.percent / d[0] for r, d in zip(c.rows, densities)]
+    densities = [row_density(r, registry, c.values_used, strict) for r in c.rows]
+    if any(d is None for d in densities):
+        return mass_fraction, "by mass: not every density is verified (strict mode)"
+    volumes = [r.percent / d for r, d in zip(c.rows, densities)]
     return sum(v for v, d in zip(volumes, inside) if d) / sum(volumes), "by volume, volumes assumed additive"
 
 
@@ -218,7 +221,7 @@ def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_fro
     capacity = capacity_check(c.batch_mass_g, balance.capacity_g)
     checks.append({"code": "batch_within_balance_capacity", "ok": capacity.ok, "subject": None,
                    "message": f"the whole batch, made up to weight: {capacity.message}"})
-    fraction, basis = _dispersed_fraction(data, c, registry)
+    fraction, basis = _dispersed_fraction(data, c, registry, strict)
     phase = core_findings.phase_volume_findings(fraction, basis)
     packing = next((f for f in phase if f.code == "dispersed_phase_above_packing_limit"), None)
     checks.append({"code": "dispersed_phase_volume", "ok": packing is None, "subject": "dispersed_phase",
