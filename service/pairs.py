@@ -7,8 +7,7 @@ from service import methods
 from service.answers import envelope, hlb_display
 from service.calculations import oil_phase_rhlb
 from service.core.candidates import RULE, SINGLE_TOLERANCE_HLB, Pair, Surfactant, candidate_pairs, single_surfactants
-from service.core.findings import GRIFFIN_SCALE_MAX
-from service.core.findings import off_scale_findings
+from service.core.findings import GRIFFIN_SCALE_MAX, off_scale_findings
 from service.lookups import enforce_strict
 from service.notices import finding_warnings
 from service.resolve import Resolved, scalar_value
