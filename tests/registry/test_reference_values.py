@@ -1,7 +1,9 @@
 """Curated values checked against the references they cite, through
 reference libraries: water density against IAPWS-95 (CoolProp), molar masses
 and Griffin's E/5 against standard atomic weights (molmass), and the Davies
-group numbers against the published HLBs they reproduce."""
+group numbers against the published HLBs they reproduce. Every calculated HLB
+in the registry is recomputed here from its nominal structure, so that a
+recorded figure cannot drift from its computation."""
 from __future__ import annotations
 
 import re
@@ -63,12 +65,21 @@ ETHERS = ["polyoxyl-4-lauryl-ether", "polyoxyl-23-lauryl-ether", "polyoxyl-2-cet
           "polyoxyl-100-stearyl-ether", "polyoxyl-2-oleyl-ether", "polyoxyl-10-oleyl-ether", "polyoxyl-20-oleyl-ether"]
 
 
+def _published(ing, prop="hlb"):
+    # The calculated record may be the preferred one; the published figure is
+    # the record that is not calculated (there is one per ingredient here).
+    [record] = [r for r in ing.active(prop) if r.kind != "calculated"]
+    return record
+
+
 @pytest.mark.parametrize("iid", ETHERS)
 def test_alkyl_ether_hlb_reproduces_griffin_e_over_5(registry, iid):
     # The handbook HLBs of the polyoxyl alkyl ethers reproduce Griffin's E/5 for
     # the nominal structure (DOMAIN notes); molar masses by molmass.
     ing = registry.get(iid)
-    assert ing.preferred("hlb").figure == pytest.approx(_e_over_5(ing.molecular_formula), abs=0.06)
+    handbook = _published(ing)
+    assert handbook.source_id == "hpe-6"
+    assert handbook.figure == pytest.approx(_e_over_5(ing.molecular_formula), abs=0.06)
 
 
 def test_calculated_cetostearyl_ether_value():
@@ -90,10 +101,104 @@ def _davies(registry, groups: dict[str, int]) -> float:
     ("potassium-oleate", {"carboxylate-potassium": 1, "methylene": 17}),
 ])
 def test_davies_groups_reproduce_published_hlbs(registry, iid, groups):
-    assert _davies(registry, groups) == pytest.approx(registry.get(iid).preferred("hlb").figure, abs=0.05)
+    assert _davies(registry, groups) == pytest.approx(_published(registry.get(iid)).figure, abs=0.05)
 
 
 def test_davies_sulfate_discrepancy_is_recorded(registry):
     values = registry.davies_groups["sulfate-sodium"].values
     assert sorted(v.figure for v in values) == [38.6, 38.7]
     assert registry.davies_groups["sulfate-sodium"].number == 38.7
+
+
+# How each calculated HLB is recomputed. Griffin's E/5 holds only where
+# oxyethylene is the only hydrophile, so only the plain alkyl ethers have one:
+# poloxamers carry propylene oxide, and sorbitan esters and polysorbates are
+# mixtures whose catalogue values no idealised structure reproduces (DOMAIN).
+ALKYL_ETHER = re.compile(r"C\d+H\d+\(OCH2CH2\)\d+OH")
+# Mixtures of nominal structures, equimolar, for records with no single formula.
+EQUIMOLAR_STRUCTURES = {"polyoxyl-20-cetostearyl-ether": ("C16H33(OCH2CH2)20OH", "C18H37(OCH2CH2)20OH")}
+# Davies group counts per ingredient: the hydrophilic group once, and n the
+# -CH3, -CH2- and =CH- groups of the fatty chain (12 for lauryl, 17 for the
+# oleate chain beside its carboxylate carbon).
+DAVIES_GROUPS = {
+    "sodium-lauryl-sulfate": {"sulfate-sodium": 1, "methylene": 12},
+    "sodium-oleate": {"carboxylate-sodium": 1, "methylene": 17},
+    "potassium-oleate": {"carboxylate-potassium": 1, "methylene": 17},
+}
+
+
+def _e_over_5_equimolar(formulas: tuple[str, ...]) -> float:
+    oxyethylene = sum(int(re.search(r"\(OCH2CH2\)(\d+)", f).group(1)) * Formula("C2H4O").mass for f in formulas)
+    return oxyethylene / sum(Formula(f).mass for f in formulas) * 100.0 / 5.0
+
+
+def _recompute(registry, ing, record) -> float:
+    if record.source_id == "griffin-1954":
+        if ing.id in EQUIMOLAR_STRUCTURES:
+            return _e_over_5_equimolar(EQUIMOLAR_STRUCTURES[ing.id])
+        assert ing.molecular_formula and ALKYL_ETHER.fullmatch(ing.molecular_formula), \
+            f"{ing.id}: E/5 needs a nominal alkyl ether structure, oxyethylene its only hydrophile"
+        return _e_over_5(ing.molecular_formula)
+    if record.source_id == "davies-1957":
+        assert ing.id in DAVIES_GROUPS, f"{ing.id}: a Davies value with no group counts in this test"
+        return _davies(registry, DAVIES_GROUPS[ing.id])
+    raise AssertionError(f"{ing.id}: calculated HLB from {record.source_id}, which this test cannot recompute")
+
+
+def _calculated_hlbs(registry):
+    return [(ing, r) for ing in registry.ingredients.values() for r in ing.active("hlb") if r.kind == "calculated"]
+
+
+def test_the_calculated_hlbs_expected_are_present(registry):
+    # So that the recomputation below cannot pass by finding nothing.
+    have = {(ing.id, r.source_id) for ing, r in _calculated_hlbs(registry)}
+    expected = ({(iid, "griffin-1954") for iid in ETHERS + list(EQUIMOLAR_STRUCTURES)}
+                | {(iid, "davies-1957") for iid in DAVIES_GROUPS})
+    assert expected <= have
+
+
+def test_every_calculated_hlb_matches_its_computation(registry):
+    # All mismatches at once, each with its recomputed figure.
+    drifted = [(ing.id, record.source_id, record.figure, round(computed, 3))
+               for ing, record in _calculated_hlbs(registry)
+               if abs(record.figure - (computed := _recompute(registry, ing, record))) > 0.05]
+    assert drifted == []
+
+
+def test_calculated_hlbs_name_their_method(registry):
+    for ing, record in _calculated_hlbs(registry):
+        expected = "Griffin" if record.source_id == "griffin-1954" else "Davies"
+        assert record.method and expected in record.method, ing.id
+
+
+def test_no_hlb_is_calculated_for_mixtures_or_propylene_oxide(registry):
+    # Griffin's formulas do not apply to poloxamers; sorbitan esters and
+    # polysorbates are mixtures, never recomputed from idealised structures.
+    for ing, _ in _calculated_hlbs(registry):
+        assert not ing.id.startswith(("poloxamer-", "sorbitan-", "polysorbate-")), ing.id
+
+
+@pytest.mark.parametrize("iid", ETHERS)
+def test_checked_e_over_5_value_is_preferred_and_agrees_with_the_handbook(registry, iid):
+    # The computed figure is preferred where it reproduces the handbook's to 0.1.
+    ing = registry.get(iid)
+    preferred = ing.preferred("hlb")
+    assert (preferred.kind, preferred.source_id, preferred.status) == ("calculated", "griffin-1954", "checked_against_source")
+    assert preferred.figure == _published(ing).figure
+
+
+def _number_record(group):
+    # The record DaviesGroup.number takes its figure from.
+    return next((r for r in group.values if r.preferred and not r.retired), group.values[0])
+
+
+@pytest.mark.parametrize("iid", list(DAVIES_GROUPS))
+def test_davies_calculation_is_no_better_checked_than_its_group_numbers(registry, iid):
+    # The molmass check stands on standard atomic weights; a Davies calculation
+    # stands on the registry's own group numbers, so while any of them is
+    # unverified the result is too, and the published figure stays preferred.
+    ing = registry.get(iid)
+    [calculated] = [r for r in ing.active("hlb") if r.kind == "calculated"]
+    if not all(_number_record(registry.davies_groups[g]).is_verified for g in DAVIES_GROUPS[iid]):
+        assert calculated.status == "unverified"
+        assert ing.preferred("hlb") is _published(ing)
