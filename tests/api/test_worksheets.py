@@ -12,10 +12,15 @@ def share(value, unit="% w/w"):
     return {"value": value, "unit": unit}
 
 
-# Hydrophilic Ointment, USP (monograph formula, from memory of the USP-NF; to be
-# checked against the current monograph): methylparaben 0.25 g, propylparaben
-# 0.15 g, sodium lauryl sulfate 10 g, propylene glycol 120 g, stearyl alcohol
-# 250 g, white petrolatum 250 g, purified water 370 g, to make about 1000 g.
+# Hydrophilic Ointment, USP: the quantities are still from memory of the monograph,
+# to be checked. The public copy of USP 28-NF 23 (p. 1415,
+# http://newdruginfo.com/pharmacopeia/usp28/v28230/usp28nf23s0_m58430.htm) was read,
+# but it keeps only the method ("Melt the Stearyl Alcohol and the White Petrolatum on
+# a steam bath, and warm to about 75. Add the other ingredients, previously dissolved
+# in the water and warmed to 75, and stir the mixture until it congeals."), not the
+# formula table. Recalled: methylparaben 0.25 g, propylparaben 0.15 g, sodium lauryl
+# sulfate 10 g, propylene glycol 120 g, stearyl alcohol 250 g, white petrolatum
+# 250 g, purified water 370 g, to make about 1000 g.
 HYDROPHILIC_OINTMENT = {
     "emulsion_type": "O/W",
     "batch": {"value": 1000, "unit": "g"},

@@ -5,6 +5,7 @@ same rule. Each test works on a copy of the shipped tree."""
 from __future__ import annotations
 
 import shutil
+import tomllib
 from pathlib import Path
 
 import pytest
@@ -154,7 +155,8 @@ def test_resourcing_a_reviewed_value_in_place_is_refused(capsys, tree):
 
 
 def test_lowering_to_unverified_needs_only_a_fresh_lock(capsys, tree):
-    edit(tree / GLYCERIN, 'status = "checked_against_source"', 'status = "unverified"')
+    # Glycerin has a reviewed density too: lower the molar mass's status, not the first one in the file.
+    edit(tree / GLYCERIN, 'status = "checked_against_source"\n' + GLYCERIN_REVIEW, 'status = "unverified"\n' + GLYCERIN_REVIEW)
     edit(tree / GLYCERIN, GLYCERIN_MOLAR_MASS, 'value = 92.1\nunit = "g/mol"')
     code, _, err = run(capsys, "check", "--root", tree)
     assert code == 1
@@ -162,7 +164,8 @@ def test_lowering_to_unverified_needs_only_a_fresh_lock(capsys, tree):
             "the lock is stale") in err
     assert "figure changed" not in err
     assert run(capsys, "lock", "--root", tree)[0] == 0
-    assert "glycerin.toml" not in (tree / LOCK_NAME).read_text()
+    lock = tomllib.loads((tree / LOCK_NAME).read_text())
+    assert not [v for v in lock["value"] if v["file"] == "ingredients/glycerin.toml" and v["property"] == "molar_mass"]
     assert run(capsys, "check", "--root", tree)[0] == 0
     code, out, _ = run(capsys, "diff", DEFAULT_ROOT, tree)
     assert code == 0
