@@ -78,7 +78,8 @@ def _registry_value(item: Resolved, record: ValueRecord, registry: Registry, uni
         "source": {"id": source.id, "citation": source.citation, "kind": source.kind},
         "locator": record.locator, "kind": record.kind, "status": record.status, "local": record.local,
         "recalled_from_memory": record.recalled_from_memory,
-        "sources_disagree": len(ing.comparable(record.property)) > 1, "note": record.note,
+        # Two sources printing the same figure agree: only differing figures disagree.
+        "sources_disagree": len({(r.low, r.high) for r in ing.comparable(record.property)}) > 1, "note": record.note,
         "range_with_doubtful": {"low": wide[0], "high": wide[1]} if wide else None,
     }
 

@@ -181,3 +181,12 @@ def test_minimum_emulsifier_small_batch_is_raised_to_the_mwq(client):
     body = r.get_json()
     assert body["result"]["batch"]["emulsifier_mass_g_weighable"] == pytest.approx(0.12)
     assert "below_minimum_weighable_quantity" in {w["code"] for w in body["warnings"]}
+
+
+def test_sources_printing_the_same_figure_do_not_disagree(client, registry):
+    # Isopropyl myristate: 11.5 in the textbook record and 11.5 read in a 2022 paper (registry records).
+    figures = {(r.low, r.high) for r in registry.get("isopropyl-myristate").comparable("required_hlb_ow")}
+    assert len(registry.get("isopropyl-myristate").comparable("required_hlb_ow")) > 1 and len(figures) == 1
+    body = client.post(RHLB, json={"emulsion_type": "O/W", "oil_phase": [comp("isopropyl-myristate", 1, "g")]}).get_json()
+    assert body["values_used"][0]["sources_disagree"] is False
+    assert "sources_disagree" not in {w["code"] for w in body["warnings"]}
