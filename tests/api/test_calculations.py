@@ -2,7 +2,7 @@
 import pytest
 
 from service.methods import CAUTIONS
-from tests.api.helpers import comp, inline, problem_pointers
+from tests.api.helpers import comp, inline, problem_pointers, unverified_surfactants
 
 BLEND = "/v1/blends/hlb"
 SPLIT = "/v1/blends/proportions"
@@ -32,11 +32,17 @@ def test_blend_of_published_pair(client, registry):
 def test_blend_values_used_carry_provenance(client):
     body = client.post(BLEND, json={"components": [comp("polysorbate-80", 9, "g"), comp("sorbitan-monooleate", 1, "g")]}).get_json()
     used = {(v["ingredient"], v["property"]): v for v in body["values_used"]}
-    assert used[("polysorbate-80", "hlb")]["source"]["id"] == "hpe-6"
+    # Both figures were read in their sources: PMC4137601 Table 2, and Griffin 1949, Table 5.
+    assert used[("polysorbate-80", "hlb")]["source"]["id"] == "pmc-4137601"
     assert used[("sorbitan-monooleate", "hlb")]["source"]["id"] == "griffin-1949"
-    codes = {w["code"] for w in body["warnings"]}
-    # Shipped values are not yet checked against their sources: never silently used.
-    assert {"unverified_value", "value_from_memory"} <= codes
+    assert {v["status"] for k, v in used.items() if k[1] == "hlb"} == {"checked_against_source"}
+    assert used[("polysorbate-80", "hlb")]["locator"] == "Table 2"
+
+
+def test_unverified_values_are_never_used_silently(client, registry):
+    first, second = unverified_surfactants(registry)
+    body = client.post(BLEND, json={"components": [comp(first, 1, "g"), comp(second, 1, "g")]}).get_json()
+    assert {"unverified_value", "value_from_memory"} <= {w["code"] for w in body["warnings"]}
 
 
 def test_blend_by_volume_uses_density(client):
