@@ -37,12 +37,24 @@ def test_blend_values_used_carry_provenance(client):
     assert used[("sorbitan-monooleate", "hlb")]["source"]["id"] == "griffin-1949"
     assert {v["status"] for k, v in used.items() if k[1] == "hlb"} == {"checked_against_source"}
     assert used[("polysorbate-80", "hlb")]["locator"] == "Table 2"
+    # Four sources print 15.0 for polysorbate 80: corroboration, not a disagreement.
+    assert used[("polysorbate-80", "hlb")]["sources_disagree"] is False
+    assert "sources_disagree" not in {w["code"] for w in body["warnings"]}
 
 
 def test_unverified_values_are_never_used_silently(client, registry):
     first, second = unverified_surfactants(registry)
     body = client.post(BLEND, json={"components": [comp(first, 1, "g"), comp(second, 1, "g")]}).get_json()
     assert {"unverified_value", "value_from_memory"} <= {w["code"] for w in body["warnings"]}
+
+
+def test_differing_figures_are_reported_as_disagreeing(client, registry):
+    # Lecithin: the handbook range 4-9 beside a supplier's single 4.
+    assert len({(r.low, r.high) for r in registry.get("lecithin").comparable("hlb")}) > 1
+    body = client.post(BLEND, json={"components": [comp("lecithin", 1, "g"), comp("polysorbate-80", 1, "g")]}).get_json()
+    used = {(v["ingredient"], v["property"]): v for v in body["values_used"]}
+    assert used[("lecithin", "hlb")]["sources_disagree"] is True
+    assert "sources_disagree" in {w["code"] for w in body["warnings"]}
 
 
 def test_blend_by_volume_uses_density(client):
