@@ -19,7 +19,7 @@ from service.core.estimates import (
 )
 from service.errors import pointer
 from service.lookups import enforce_strict
-from service.resolve import invalid
+from service.resolve import figures_differ, invalid
 
 MAX_MOLAR_MASS = 1e6
 
@@ -61,7 +61,7 @@ def _group_values(data: dict, registry: Registry) -> tuple[list[dict], list[dict
             "high": max(r.high for r in group.values if not r.retired), "unit": None, "origin": "registry",
             "source": {"id": source.id, "citation": source.citation, "kind": source.kind}, "locator": record.locator,
             "kind": record.kind, "status": record.status, "local": False, "recalled_from_memory": record.recalled_from_memory,
-            "sources_disagree": len([r for r in group.values if not r.retired]) > 1, "note": record.note, "range_with_doubtful": None,
+            "sources_disagree": figures_differ([r for r in group.values if not r.retired]), "note": record.note, "range_with_doubtful": None,
         })
         contributions.append({"group": group.id, "formula": group.formula, "number": record.figure, "count": g["count"],
                               "contribution": record.figure * g["count"]})

@@ -68,6 +68,13 @@ def spans(ing: Ingredient, prop: str) -> tuple[tuple[float, float], tuple[float,
     return ing.span_without_doubtful(prop), (ing.span(prop) if ing.has_doubtful(prop) else None)
 
 
+def figures_differ(records) -> bool:
+    """Whether the values give different figures (or ranges): several sources
+    printing one figure corroborate it, and saying they disagree would send a
+    pharmacist looking for a conflict that is not there."""
+    return len({(r.low, r.high) for r in records}) > 1
+
+
 def _registry_value(item: Resolved, record: ValueRecord, registry: Registry, unit: str | None) -> dict:
     ing = item.record
     span, wide = spans(ing, record.property)
@@ -78,8 +85,7 @@ def _registry_value(item: Resolved, record: ValueRecord, registry: Registry, uni
         "source": {"id": source.id, "citation": source.citation, "kind": source.kind},
         "locator": record.locator, "kind": record.kind, "status": record.status, "local": record.local,
         "recalled_from_memory": record.recalled_from_memory,
-        # Two sources printing the same figure agree: only differing figures disagree.
-        "sources_disagree": len({(r.low, r.high) for r in ing.comparable(record.property)}) > 1, "note": record.note,
+        "sources_disagree": figures_differ(ing.comparable(record.property)), "note": record.note,
         "range_with_doubtful": {"low": wide[0], "high": wide[1]} if wide else None,
     }
 

@@ -2,7 +2,7 @@
 import pytest
 
 from service.methods import CAUTIONS
-from tests.api.helpers import comp, inline, problem_pointers
+from tests.api.helpers import comp, inline, problem_pointers, unverified_surfactants
 
 BLEND = "/v1/blends/hlb"
 SPLIT = "/v1/blends/proportions"
@@ -32,11 +32,29 @@ def test_blend_of_published_pair(client, registry):
 def test_blend_values_used_carry_provenance(client):
     body = client.post(BLEND, json={"components": [comp("polysorbate-80", 9, "g"), comp("sorbitan-monooleate", 1, "g")]}).get_json()
     used = {(v["ingredient"], v["property"]): v for v in body["values_used"]}
-    assert used[("polysorbate-80", "hlb")]["source"]["id"] == "hpe-6"
+    # Both figures were read in their sources: PMC4137601 Table 2, and Griffin 1949, Table 5.
+    assert used[("polysorbate-80", "hlb")]["source"]["id"] == "pmc-4137601"
     assert used[("sorbitan-monooleate", "hlb")]["source"]["id"] == "griffin-1949"
-    codes = {w["code"] for w in body["warnings"]}
-    # Shipped values are not yet checked against their sources: never silently used.
-    assert {"unverified_value", "value_from_memory"} <= codes
+    assert {v["status"] for k, v in used.items() if k[1] == "hlb"} == {"checked_against_source"}
+    assert used[("polysorbate-80", "hlb")]["locator"] == "Table 2"
+    # Four sources print 15.0 for polysorbate 80: corroboration, not a disagreement.
+    assert used[("polysorbate-80", "hlb")]["sources_disagree"] is False
+    assert "sources_disagree" not in {w["code"] for w in body["warnings"]}
+
+
+def test_unverified_values_are_never_used_silently(client, registry):
+    first, second = unverified_surfactants(registry)
+    body = client.post(BLEND, json={"components": [comp(first, 1, "g"), comp(second, 1, "g")]}).get_json()
+    assert {"unverified_value", "value_from_memory"} <= {w["code"] for w in body["warnings"]}
+
+
+def test_differing_figures_are_reported_as_disagreeing(client, registry):
+    # White wax, O/W required HLB: 9 in the textbook record (recalled) beside 12 read in Wangpradit 2022, Table 4.
+    assert len({(r.low, r.high) for r in registry.get("white-wax").comparable("required_hlb_ow")}) > 1
+    body = client.post(RHLB, json={"emulsion_type": "O/W", "oil_phase": [comp("white-wax", 1, "g")]}).get_json()
+    used = {(v["ingredient"], v["property"]): v for v in body["values_used"]}
+    assert used[("white-wax", "required_hlb_ow")]["sources_disagree"] is True
+    assert "sources_disagree" in {w["code"] for w in body["warnings"]}
 
 
 def test_blend_by_volume_uses_density(client):

@@ -8,7 +8,7 @@ import pytest
 
 from registry import RegistryError, load_registry
 from service import create_app
-from tests.api.helpers import comp, inline, problem_pointers
+from tests.api.helpers import comp, inline, problem_pointers, unverified_surfactants
 
 OVERLAY = Path(__file__).resolve().parents[1] / "fixtures" / "site-overlay"
 
@@ -82,11 +82,13 @@ def test_an_overlay_without_ingredients_folder(tmp_path):
         load_registry(overlay=tmp_path)
 
 
-BLEND = {"components": [comp("polysorbate-80", 3, "g"), comp("sorbitan-monooleate", 2, "g")]}
+def unverified_blend(registry):
+    first, second = unverified_surfactants(registry)
+    return {"components": [comp(first, 3, "g"), comp(second, 2, "g")]}
 
 
-def test_strict_request_refuses_unverified_values_and_names_them(client):
-    r = client.post("/v1/blends/hlb", json={**BLEND, "strict": True})
+def test_strict_request_refuses_unverified_values_and_names_them(client, registry):
+    r = client.post("/v1/blends/hlb", json={**unverified_blend(registry), "strict": True})
     assert r.status_code == 422
     assert problem_pointers(r) == ["#/components/0", "#/components/1"]
     assert all(e["rule"] == "verified_values_only" for e in r.get_json()["errors"])
@@ -100,14 +102,21 @@ def test_strict_accepts_verified_and_caller_values(site_app):
     assert r.get_json()["result"]["required_hlb"] == 9.8
 
 
-def test_strict_service_cannot_be_relaxed_by_a_request():
+def test_strict_accepts_registry_values_read_in_their_sources(client):
+    # Both HLBs were checked against their sources (PMC4137601, Griffin 1949); by mass, no density is needed.
+    body = {"components": [comp("polysorbate-80", 3, "g"), comp("sorbitan-monooleate", 2, "g")], "strict": True}
+    r = client.post("/v1/blends/hlb", json=body)
+    assert r.status_code == 200 and r.get_json()["strict"] is True
+
+
+def test_strict_service_cannot_be_relaxed_by_a_request(registry):
     client = create_app({"strict": True}).test_client()
-    r = client.post("/v1/blends/hlb", json={**BLEND, "strict": False})
+    r = client.post("/v1/blends/hlb", json={**unverified_blend(registry), "strict": False})
     assert r.status_code == 422 and r.get_json()["title"] == "Unverified values refused"
 
 
-def test_non_strict_answers_say_so(client):
-    assert client.post("/v1/blends/hlb", json=BLEND).get_json()["strict"] is False
+def test_non_strict_answers_say_so(client, registry):
+    assert client.post("/v1/blends/hlb", json=unverified_blend(registry)).get_json()["strict"] is False
 
 
 def test_strict_flag_from_environment():
