@@ -216,6 +216,9 @@ def test_a_shipped_record_with_a_site_records_names(tmp_path, capsys):
     assert ("warning: site-overlay/ingredients/caprylic-capric-triglyceride.toml: synonyms: 'medium-chain triglycerides' names "
             "site record 'caprylic-capric-triglyceride' and shipped record 'medium-chain-triglycerides' "
             "(data/ingredients/medium-chain-triglycerides.toml): lookups by it find the site record only") in err
+    client = create_app({"registry_root": str(root), "site_overlay": str(OVERLAY)}).test_client()
+    found = client.get("/v1/ingredients?q=Caprylic%2FCapric").get_json()["ingredients"]
+    assert [i["id"] for i in found] == ["caprylic-capric-triglyceride"]
     # Resolved by retiring the site record: the shared names go back to the shipped one.
     overlay = _copy_overlay(tmp_path)
     path = overlay / "ingredients" / "caprylic-capric-triglyceride.toml"
