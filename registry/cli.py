@@ -1,31 +1,36 @@
 """The data steward's command line: check, lock, list, show, report and diff
 a registry tree. Every command reads the shipped registry unless --root names
-another tree (a working copy); --overlay adds a site overlay.
+another tree (a working copy: the registry folder, or its data folder);
+--overlay adds a site overlay. --json prints list, show, check and report as
+JSON; --version prints the package's version and the shipped registry's.
 
 Exit status: 0 when all is well; 1 when a check fails (the review rule
-included), an id is unknown, lock finds the review rule broken (and writes
-nothing), or a diff finds a record deleted rather than retired or a reviewed
-value changed without a renewed review; 2 for usage errors."""
+included), an id is unknown, a tree does not load for list, show or report,
+lock finds the review rule broken (and writes nothing), or a diff finds a
+record deleted rather than retired or a reviewed value changed without a
+renewed review; 2 for usage errors, a --root that is not a registry tree, and
+a diff whose trees cannot both be loaded (there is then nothing to compare)."""
 from __future__ import annotations
 
 import argparse
+import importlib.metadata
 import json
 import os
 import sys
-from collections import Counter
-from dataclasses import fields
+from dataclasses import asdict
 from pathlib import Path
 from typing import Sequence
 
 from registry import review
-from registry.coverage import hlb_coverage
 from registry.diff import diff_lines
-from registry.display import functions_lines, value_lines
-from registry.errors import RegistryError
+from registry.display import functions_lines, ingredient_data, summary_data, value_lines
+from registry.errors import RegistryError, RegistryFaults
 from registry.loader import DEFAULT_ROOT, check_tree, load_registry
-from registry.model import PROPERTIES, FunctionsRecord, Registry, ValueRecord
+from registry.lookup import closest, either
+from registry.model import PROPERTIES, OverlayCollision, ValueRecord
+from registry.report import report_data
 
-HLB_PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo")
+PACKAGE = "emulsion-formulation-service"
 
 
 def _out(text: str = "") -> None:
@@ -36,17 +41,33 @@ def _err(text: str) -> None:
     sys.stderr.write(text + "\n")
 
 
-def _faults(errors: list[RegistryError]) -> None:
-    for exc in errors:
+def _json(data) -> None:
+    _out(json.dumps(data, indent=2, ensure_ascii=False))
+
+
+def _each(errors: Sequence[RegistryError]) -> list[RegistryError]:
+    return [e for exc in errors for e in (exc.errors if isinstance(exc, RegistryFaults) else [exc])]
+
+
+def _faults(errors: Sequence[RegistryError]) -> None:
+    for exc in _each(errors):
         _err(f"error: {exc.file}: {exc.field}: {exc.message}")
 
 
-def _load(args) -> Registry | None:
+def _collisions(collisions: Sequence[OverlayCollision]) -> None:
+    for c in collisions:
+        _err(f"warning: {c.site_file}: {c.field}: {c.message}")
+
+
+def _load(args):
     try:
-        return load_registry(args.root, args.overlay)
+        registry = load_registry(args.root, args.overlay)
     except RegistryError as exc:
         _faults([exc])
         return None
+    if not getattr(args, "json", False):
+        _collisions(registry.collisions)
+    return registry
 
 
 def _fmt(record: ValueRecord | None) -> str:
@@ -56,18 +77,36 @@ def _fmt(record: ValueRecord | None) -> str:
     return text + ("*" if record.local else "")
 
 
+def _fault_data(exc: RegistryError) -> dict:
+    return {"file": exc.file, "field": exc.field, "message": exc.message}
+
+
+def _collision_data(c: OverlayCollision) -> dict:
+    return asdict(c) | {"message": c.message}
+
+
 def cmd_check(args) -> int:
-    registry, errors = check_tree(args.root, args.overlay)
+    checked = check_tree(args.root, args.overlay)
+    registry, errors = checked.registry, checked.errors
     if registry is not None:
         broken, stale = review.compare(registry, args.root)
         errors = broken + stale
+    counts = None
+    if registry is not None and not errors:
+        counts = {"ingredients": len(registry.ingredients),
+                  "values": sum(len(records) for ing in registry.ingredients.values() for records in ing.values.values()),
+                  "sources": len(registry.sources), "davies_groups": len(registry.davies_groups)}
+    if args.json:
+        _json({"accepted": not errors, "release": registry.release if counts else None, "version": registry.version if counts else None,
+               "counts": counts, "errors": [_fault_data(e) for e in errors], "collisions": [_collision_data(c) for c in checked.collisions]})
+        return 1 if errors else 0
     _faults(errors)
+    _collisions(checked.collisions)
     if errors:
         _err(f"{len(errors)} error(s); the registry was not accepted")
         return 1
-    n_values = sum(len(records) for ing in registry.ingredients.values() for records in ing.values.values())
-    _out(f"ok: release {registry.release}, {len(registry.ingredients)} ingredients, {n_values} values, "
-         f"{len(registry.sources)} sources, {len(registry.davies_groups)} Davies groups; version {registry.version}")
+    _out(f"ok: release {registry.release}, {counts['ingredients']} ingredients, {counts['values']} values, "
+         f"{counts['sources']} sources, {counts['davies_groups']} Davies groups; version {registry.version}")
     return 0
 
 
@@ -90,12 +129,13 @@ def cmd_list(args) -> int:
     registry = _load(args)
     if registry is None:
         return 1
+    chosen = [ing for ing in registry.ingredients.values()
+              if (not args.role or args.role in ing.roles) and (args.all or not ing.retired)]
+    if args.json:
+        _json({"version": registry.version, "ingredients": [summary_data(ing) for ing in chosen]})
+        return 0
     _out(f"{'id':<40} {'HLB':>7} {'RHLB O/W':>9} {'RHLB W/O':>9} {'g/mL':>8}  roles")
-    for ing in registry.ingredients.values():
-        if args.role and args.role not in ing.roles:
-            continue
-        if ing.retired and not args.all:
-            continue
+    for ing in chosen:
         cells = [_fmt(ing.preferred(p)) for p in ("hlb", "required_hlb_ow", "required_hlb_wo")]
         density = ing.preferred("density")
         flag = " (retired)" if ing.retired else ""
@@ -110,8 +150,13 @@ def cmd_show(args) -> int:
         return 1
     ing = registry.get(args.id)
     if ing is None:
-        _err(f"error: no ingredient '{args.id}' in {args.root}")
+        near = closest(registry, args.id)
+        hint = f"; did you mean {either(near)}?" if near else ""
+        _err(f"error: no ingredient '{args.id}' in {args.root}{hint}")
         return 1
+    if args.json:
+        _json({"version": registry.version, "ingredient": ingredient_data(registry, ing)})
+        return 0
     _out(f"{ing.id}: {ing.name}" + ("  (RETIRED " + f"{ing.retired_on}: {ing.retired_reason})" if ing.retired else ""))
     _out(f"  roles: {', '.join(ing.roles)}; ionic class: {ing.ionic_class}; state: {ing.physical_state}")
     if ing.synonyms:
@@ -132,50 +177,13 @@ def cmd_show(args) -> int:
     return 0
 
 
-def report_data(registry: Registry, hlb_threshold: float, density_threshold: float) -> dict:
-    records = [r for ing in registry.ingredients.values() for prop in ing.values for r in ing.active(prop)]
-    records += [r for g in registry.davies_groups.values() for r in g.values if not r.retired]
-    current = [ing for ing in registry.ingredients.values() if not ing.retired]
-    disagreements = []
-    for ing in current:
-        for prop in ing.values:
-            # Densities at other temperatures differ by nature, not by dispute.
-            active = ing.comparable(prop)
-            if len(active) < 2:
-                continue
-            low, high = ing.span(prop)
-            limit = density_threshold if prop == "density" else hlb_threshold
-            if high - low > limit:
-                disagreements.append({"ingredient": ing.id, "property": prop, "low": low, "high": high,
-                                      "sources": sorted({r.source_id for r in active}),
-                                      "without_doubtful": ing.span_without_doubtful(prop) if ing.has_doubtful(prop) else None})
-    return {
-        "release": registry.release, "version": registry.version,
-        "values": len(records),
-        "by_status": dict(sorted(Counter(r.status for r in records).items())),
-        "by_kind": dict(sorted(Counter(r.kind for r in records).items())),
-        "recalled_from_memory": sum(r.recalled_from_memory for r in records),
-        "lacking_density": sorted(i.id for i in current if not i.active("density")),
-        "oil_phase_lacking_required_hlb_ow": sorted(i.id for i in current if "oil_phase" in i.roles and not i.active("required_hlb_ow")),
-        "oil_phase_lacking_required_hlb_wo": sorted(i.id for i in current if "oil_phase" in i.roles and not i.active("required_hlb_wo")),
-        "surfactants_lacking_hlb": sorted(i.id for i in current if "surfactant" in i.roles and not i.active("hlb")),
-        "current_ingredients": len(current),
-        "functions_unverified": sorted(i.id for i in current if i.functions_record and not i.functions_record.is_verified),
-        "doubtful_values": [{"ingredient": ing.id, "property": prop, "source": r.source_id, "reason": r.doubtful_reason}
-                            for ing in current for prop in ing.values for r in ing.active(prop) if r.doubtful],
-        "disagreements": disagreements,
-        "hlb_coverage": hlb_coverage(registry).as_dict(),
-        "thresholds": {"hlb": hlb_threshold, "density_g_per_ml": density_threshold},
-    }
-
-
 def cmd_report(args) -> int:
     registry = _load(args)
     if registry is None:
         return 1
     data = report_data(registry, args.threshold, args.density_threshold)
     if args.json:
-        _out(json.dumps(data, indent=2))
+        _json(data)
         return 0
     _out(f"registry {data['version']}: {data['values']} current values")
     _out("by status: " + ", ".join(f"{k} {v}" for k, v in data["by_status"].items()))
@@ -203,7 +211,8 @@ def cmd_diff(args) -> int:
         old, new = load_registry(args.old), load_registry(args.new)
     except RegistryError as exc:
         _faults([exc])
-        return 1
+        _err("a tree could not be loaded, so nothing was compared")
+        return 2
     changes, deletions, reviews = diff_lines(old, new)
     _out(f"{old.version} -> {new.version}")
     for line in changes + deletions:
@@ -217,19 +226,65 @@ def cmd_diff(args) -> int:
     return 1 if deletions or unreviewed else 0
 
 
+def registry_tree(text: str) -> Path:
+    """A tree argument: the data folder (registry.toml in it), or the registry
+    folder that holds it as data/ (registry/ or registry/data alike)."""
+    path = Path(text)
+    if (path / "registry.toml").is_file():
+        return path
+    if (path / "data" / "registry.toml").is_file():
+        return path / "data"
+    what = "no such folder" if not path.is_dir() else "not a registry tree"
+    raise argparse.ArgumentTypeError(
+        f"{text}: {what}: give the registry folder (e.g. registry/, which holds data/) or its data folder "
+        "(e.g. registry/data, which holds registry.toml, sources.toml, davies_groups.toml and ingredients/)")
+
+
+def _version_text() -> tuple[int, str]:
+    try:
+        package = importlib.metadata.version(PACKAGE)
+    except importlib.metadata.PackageNotFoundError:
+        package = "(not installed)"
+    try:
+        registry = load_registry()
+    except RegistryError as exc:
+        return 1, (f"emulsion-registry {package}; registry at {DEFAULT_ROOT}: not accepted ({len(_each([exc]))} fault(s)): "
+                   "run `emulsion-registry check`")
+    return 0, f"emulsion-registry {package}; registry {registry.version} ({DEFAULT_ROOT})"
+
+
+class _Version(argparse.Action):
+    """--version: the package's version and the shipped registry's (which
+    takes loading it, so it is not a static string)."""
+
+    def __init__(self, option_strings, dest, **kwargs):
+        super().__init__(option_strings, dest, nargs=0, default=argparse.SUPPRESS,
+                         help="print the package version and the shipped registry's version, and exit")
+
+    def __call__(self, parser, namespace, values, option_string=None):
+        status, text = _version_text()
+        _out(text)
+        parser.exit(status)
+
+
 def parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(prog="emulsion-registry", description="Check, read and compare the ingredient registry.")
+    p.add_argument("--version", action=_Version)
     sub = p.add_subparsers(dest="command", required=True)
 
-    def tree(sp, overlay=True):
-        sp.add_argument("--root", type=Path, default=DEFAULT_ROOT, help="registry tree (default: the shipped one)")
+    def tree(sp, overlay=True, json_out=True):
+        sp.add_argument("--root", type=registry_tree, default=DEFAULT_ROOT,
+                        help="registry tree: the registry folder or its data folder (default: the shipped one)")
         if overlay:
             sp.add_argument("--overlay", type=Path, default=None, help="a site overlay folder to apply")
+        if json_out:
+            sp.add_argument("--json", action="store_true", help="print JSON")
         return sp
 
     tree(sub.add_parser("check", help="validate every file, and the review rule against the lock")).set_defaults(fn=cmd_check)
     # The lock records the shipped tree's reviews; a site overlay has none in it.
-    tree(sub.add_parser("lock", help=f"regenerate {review.LOCK_NAME}, the record of reviewed values"), overlay=False).set_defaults(fn=cmd_lock, overlay=None)
+    tree(sub.add_parser("lock", help=f"regenerate {review.LOCK_NAME}, the record of reviewed values"), overlay=False,
+         json_out=False).set_defaults(fn=cmd_lock, overlay=None)
     sp = tree(sub.add_parser("list", help="ingredients with their preferred values"))
     sp.add_argument("--role", choices=["surfactant", "oil_phase", "aqueous_phase", "hydrocolloid"])
     sp.add_argument("--all", action="store_true", help="include retired records")
@@ -240,11 +295,10 @@ def parser() -> argparse.ArgumentParser:
     sp = tree(sub.add_parser("report", help="provenance coverage and disagreements"))
     sp.add_argument("--threshold", type=float, default=2.0, help="HLB units of disagreement to report (default 2)")
     sp.add_argument("--density-threshold", type=float, default=0.02, help="g/mL of disagreement to report (default 0.02)")
-    sp.add_argument("--json", action="store_true")
     sp.set_defaults(fn=cmd_report)
     sp = sub.add_parser("diff", help="values that changed between two registry trees")
-    sp.add_argument("old", type=Path)
-    sp.add_argument("new", type=Path)
+    sp.add_argument("old", type=registry_tree)
+    sp.add_argument("new", type=registry_tree)
     sp.set_defaults(fn=cmd_diff)
     return p
 

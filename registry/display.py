@@ -1,8 +1,12 @@
-"""Plain-text lines for one record and its provenance, as the steward's
-`show` command prints them (kept apart so that cli.py stays the commands)."""
+"""One record and its provenance as the steward's commands print it: plain
+lines for `show`, and plain data for `list --json` and `show --json` (kept
+apart so that cli.py stays the commands)."""
 from __future__ import annotations
 
-from registry.model import UNITS, FunctionsRecord, Registry, ValueRecord
+from dataclasses import fields
+
+from registry.lookup import labels
+from registry.model import PROPERTIES, UNITS, FunctionsRecord, Ingredient, Registry, ValueRecord
 
 
 def _detail_lines(items: list[tuple[str, object]]) -> list[str]:
@@ -39,3 +43,46 @@ def functions_lines(registry: Registry, record: FunctionsRecord | None) -> list[
     return ["functions:", f"  {', '.join(record.functions)}{marks}", f"    source: {source.id}: {source.citation}"] + _detail_lines([
         ("locator", record.locator), ("status", record.status),
         ("reviewed", " on ".join(filter(None, [record.reviewed_by, record.reviewed_on])) or None), ("note", record.note)])
+
+
+def _source(registry: Registry, source_id: str) -> dict:
+    source = registry.sources[source_id]
+    return {"id": source.id, "citation": source.citation, "kind": source.kind, "local": source.local}
+
+
+def value_data(registry: Registry, record: ValueRecord) -> dict:
+    """Every field of a value; `low`, `high` and `figure` in `canonical_unit`
+    (g/mL for densities), `recorded` and `unit` as the file has them."""
+    data = {f.name: getattr(record, f.name) for f in fields(ValueRecord) if f.name != "source_id"}
+    data["recorded"] = dict(record.recorded)
+    return data | {"figure": record.figure, "canonical_unit": UNITS.get(record.property), "source": _source(registry, record.source_id)}
+
+
+def functions_data(registry: Registry, record: FunctionsRecord | None) -> dict | None:
+    if record is None:
+        return None
+    data = {f.name: getattr(record, f.name) for f in fields(FunctionsRecord) if f.name != "source_id"}
+    return data | {"functions": list(record.functions), "source": _source(registry, record.source_id)}
+
+
+def _preferred(ing: Ingredient, prop: str) -> dict | None:
+    record = ing.preferred(prop)
+    if record is None:
+        return None
+    return {"figure": record.figure, "low": record.low, "high": record.high, "status": record.status, "local": record.local}
+
+
+def summary_data(ing: Ingredient) -> dict:
+    """One line of `list`: the record and its preferred figures."""
+    return {"id": ing.id, "name": ing.name, "roles": list(ing.roles), "functions": list(ing.functions),
+            "retired": ing.retired, "local": ing.uses_local_values,
+            "preferred": {prop: _preferred(ing, prop) for prop in PROPERTIES}}
+
+
+def ingredient_data(registry: Registry, ing: Ingredient) -> dict:
+    """Everything `show` prints, as data: the record, what it does, every value."""
+    data = {f.name: getattr(ing, f.name) for f in fields(Ingredient) if f.name not in ("values", "functions", "functions_record")}
+    data.update(roles=list(ing.roles), synonyms=list(ing.synonyms), lookup_names=labels(registry, ing),
+                functions=functions_data(registry, ing.functions_record),
+                values={prop: [value_data(registry, r) for r in ing.values.get(prop, ())] for prop in PROPERTIES})
+    return data

@@ -231,6 +231,33 @@ class DaviesGroup:
 
 
 @dataclass(frozen=True)
+class OverlayCollision:
+    """A site overlay record that meets a shipped one, by id or by a name or
+    synonym (registry/FIELDS.md, "The site overlay"): the site record is
+    used, and `message` says what became of the shipped one and how to
+    resolve it. Files are named as faults are (relative to each tree's parent)."""
+
+    kind: str  # "id" | "label"
+    label: str  # the id, or the name or synonym both records claim
+    field: str  # where in the site file: id, name or synonyms
+    site_id: str
+    site_file: str
+    shipped_id: str
+    shipped_file: str
+
+    @property
+    def message(self) -> str:
+        if self.kind == "id":
+            return (f"site record '{self.site_id}' has the id of shipped record '{self.shipped_id}' ({self.shipped_file}): "
+                    "this site uses its own record and sets the shipped one aside. To resolve: to use the shipped record "
+                    "with the site's values added, keep only id, values and note in the site file; to keep both, give the "
+                    "site record a new id (and file name) and change the requests that name it")
+        return (f"'{self.label}' names site record '{self.site_id}' and shipped record '{self.shipped_id}' ({self.shipped_file}): "
+                f"lookups by it find the site record only. To resolve: rename or remove '{self.label}' in the site record, "
+                f"or retire the site record in favour of '{self.shipped_id}'")
+
+
+@dataclass(frozen=True)
 class Registry:
     release: str
     digest: str
@@ -241,6 +268,13 @@ class Registry:
     emulsifier_levels: EmulsifierLevelTable | None = None
     overlay_digest: str | None = None
     overlay_root: str | None = None
+    # Lookup index: every name and synonym, casefolded, to the one id it finds
+    # (a shipped label a site record also claims finds the site record).
+    names: Mapping[str, str] = field(default_factory=dict)
+    # Shipped records a site record of the same id set aside, kept so that
+    # the review lock still sees every shipped value.
+    shadowed: Mapping[str, Ingredient] = field(default_factory=dict)
+    collisions: tuple[OverlayCollision, ...] = ()
 
     @property
     def version(self) -> str:

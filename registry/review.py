@@ -94,9 +94,10 @@ class Located:
 def located(registry: Registry) -> dict[tuple, Located]:
     """Every shipped value of the tree by (file, property, group, source,
     basis, temperature, nth). Site-overlay values are the site's, not under
-    the shipped lock."""
+    the shipped lock; a shipped record a site record set aside still is."""
+    shipped = [ing for ing in registry.ingredients.values() if not ing.local] + list(registry.shadowed.values())
     lists = [(f"ingredients/{ing.id}.toml", prop, None, [r for r in records if not r.local])
-             for ing in registry.ingredients.values() if not ing.local for prop, records in ing.values.items()]
+             for ing in shipped for prop, records in ing.values.items()]
     lists += [("davies_groups.toml", "davies_group_number", gid, group.values) for gid, group in registry.davies_groups.items()]
     out = {}
     for file, prop, group, records in sorted(lists, key=lambda item: item[0]):

@@ -13,9 +13,10 @@ from service.config import Settings
 def create_app(config: Mapping | None = None) -> Flask:
     """Build the app. `config` overrides settings (keys of Settings, e.g.
     registry_root, site_overlay, strict); without it they come from the
-    environment. A bad
-    registry raises RegistryError here, so the service never starts on
-    partial data."""
+    environment. A bad registry or overlay raises RegistryFaults (a
+    RegistryError listing every fault) here, so the service never starts on
+    partial data. Where the overlay meets shipped records, each collision is
+    logged as a warning, naming both records and how to resolve it."""
     from service.api import calculations, estimates, ingredients, meta, worksheets
     from service.errors import register_error_handlers
     from service.jsonio import StrictJSONProvider
@@ -46,5 +47,8 @@ def create_app(config: Mapping | None = None) -> Flask:
         response.headers["Registry-Version"] = registry.version
         return response
 
-    logging.getLogger("service").info("registry %s loaded: %d ingredients", registry.version, len(registry.ingredients))
+    log = logging.getLogger("service")
+    for c in registry.collisions:
+        log.warning("site overlay: %s: %s: %s", c.site_file, c.field, c.message)
+    log.info("registry %s loaded: %d ingredients", registry.version, len(registry.ingredients))
     return app

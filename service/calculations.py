@@ -25,7 +25,7 @@ from service.lookups import (
     required_value,
     usual_emulsifier_high_percent,
 )
-from service.resolve import RHLB_PROPERTY, Resolved, amount, checked_density, invalid, resolve
+from service.resolve import RHLB_PROPERTY, Resolved, amount, check_references, checked_density, invalid, resolve
 from service.units import to_canonical
 
 def _component_inputs(items, given, weighed, fractions) -> list[dict]:
@@ -43,6 +43,7 @@ def _common_warnings(items: Sequence[Resolved], given: Sequence[dict]) -> list[d
 
 
 def blend(data: dict, registry: Registry, strict: bool = False) -> dict:
+    check_references(data, registry)
     components = data["components"]
     items = [resolve(c, ("components", i), registry) for i, c in enumerate(components)]
     values_used: list[dict] = []
@@ -85,6 +86,7 @@ def _fixed_fractions(fixed: list[dict], total: dict | None) -> list[float]:
 
 
 def split(data: dict, registry: Registry, strict: bool = False) -> dict:
+    check_references(data, registry)
     values_used: list[dict] = []
     pair = [resolve(r, ("pair", i), registry) for i, r in enumerate(data["pair"])]
     fixed = data.get("fixed", [])
@@ -136,6 +138,7 @@ def split(data: dict, registry: Registry, strict: bool = False) -> dict:
 
 
 def oil_phase_rhlb(data: dict, registry: Registry, strict: bool = False) -> dict:
+    check_references(data, registry)
     emulsion_type = data["emulsion_type"]
     prop = RHLB_PROPERTY[emulsion_type]
     oil = data["oil_phase"]

@@ -10,7 +10,7 @@ from service.core.candidates import RULE, SINGLE_TOLERANCE_HLB, Pair, Surfactant
 from service.core.findings import GRIFFIN_SCALE_MAX, off_scale_findings
 from service.lookups import enforce_strict
 from service.notices import finding_warnings
-from service.resolve import Resolved, scalar_value
+from service.resolve import Resolved, check_references, scalar_value
 
 DEFAULT_IONIC = ("nonionic",)
 DEFAULT_LIMIT = 10
@@ -61,6 +61,7 @@ def _member(registry: Registry, s: Surfactant, share: float) -> dict:
 
 
 def candidates(data: dict, registry: Registry, strict: bool = False) -> dict:
+    check_references(data, registry)
     ionic = tuple(data.get("ionic_classes", DEFAULT_IONIC))
     limit = data.get("limit", DEFAULT_LIMIT)
     off_scale = data.get("include_off_scale_hlb", False)

@@ -2,6 +2,7 @@
 from __future__ import annotations
 
 from registry import Ingredient, Registry, ValueRecord
+from registry.lookup import search
 from registry.model import PROPERTIES, UNITS
 from service.answers import registry_version
 
@@ -37,10 +38,10 @@ def _record(registry: Registry, r: ValueRecord) -> dict:
 
 
 def ingredient_list(registry: Registry, query: dict) -> dict:
+    """Current ingredients that pass every filter given, sorted by name."""
     chosen = []
-    for ing in registry.ingredients.values():
-        if ing.retired:
-            continue
+    found = search(registry, query.get("q", ""))
+    for ing in found:
         if "role" in query and query["role"] not in ing.roles:
             continue
         if "ionic_class" in query and query["ionic_class"] != ing.ionic_class:

@@ -7,6 +7,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from registry import Ingredient, Registry, ValueRecord
+from registry.lookup import closest, either
 from service.core.amounts import Amount
 from service.core.blend import HlbValue
 from service.errors import TYPE_INVALID_INPUT, ApiProblem, pointer
@@ -46,13 +47,60 @@ class Resolved:
         return self.ingredient_id or f"inline '{self.name}'"
 
 
+def unknown_ingredient(registry: Registry, ingredient_id: str) -> tuple[str, list[str]]:
+    """What to say of an id the registry lacks: the detail, with the closest
+    ids ("did you mean"), and those ids."""
+    near = closest(registry, ingredient_id)
+    hint = f": did you mean {either(near)}?" if near else ""
+    return f"no ingredient '{ingredient_id}' in the registry{hint} (GET /v1/ingredients?q= searches by name or synonym)", near
+
+
+def _references(data, path: tuple = ()):
+    """(path, id) of every registry reference in a loaded request, in body
+    order: every object with an `ingredient` member is one (IngredientRefSchema)."""
+    if isinstance(data, dict):
+        if isinstance(data.get("ingredient"), str):
+            yield path, data["ingredient"]
+        for key, value in data.items():
+            yield from _references(value, path + (key,))
+    elif isinstance(data, list):
+        for i, value in enumerate(data):
+            yield from _references(value, path + (i,))
+
+
+def check_references(data: dict, registry: Registry) -> None:
+    """Refuse, in one 422, every ingredient id in the request that is unknown
+    or retired, each by its pointer; an unknown one comes with the closest
+    ids. Run before a calculation, so that a request with several wrong ids
+    is put right in one round."""
+    errors, near_by_id = [], {}
+    for path, iid in _references(data):
+        where = pointer(path + ("ingredient",))
+        record = registry.get(iid)
+        if record is None:
+            if iid not in near_by_id:
+                near_by_id[iid] = unknown_ingredient(registry, iid)
+            detail, near = near_by_id[iid]
+            errors.append({"pointer": where, "rule": "known_ingredient", "detail": detail, "suggestions": near})
+        elif record.retired:
+            errors.append({"pointer": where, "rule": "current_ingredient",
+                           "detail": f"ingredient '{record.id}' was retired on {record.retired_on}: {record.retired_reason}"})
+    if errors:
+        raise ApiProblem(422, "Invalid input", f"{len(errors)} unknown or retired ingredient(s); first at {errors[0]['pointer']}: {errors[0]['detail']}",
+                         type_=TYPE_INVALID_INPUT, errors=errors)
+
+
 def resolve(ref: dict, path: tuple, registry: Registry) -> Resolved:
     """Resolve {ingredient | inline, density?} at `path` in the body."""
     override = ref.get("density")
     if "ingredient" in ref:
         record = registry.get(ref["ingredient"])
         if record is None:
-            raise invalid(path + ("ingredient",), "known_ingredient", f"no ingredient '{ref['ingredient']}' in the registry; GET /v1/ingredients lists them")
+            # check_references has refused every id in the request before this;
+            # an id the service supplies itself (a default vehicle) may still land here.
+            detail, near = unknown_ingredient(registry, ref["ingredient"])
+            raise ApiProblem(422, "Invalid input", f"at {pointer(path + ('ingredient',))}: {detail}", type_=TYPE_INVALID_INPUT,
+                             errors=[{"pointer": pointer(path + ("ingredient",)), "rule": "known_ingredient", "detail": detail, "suggestions": near}])
         if record.retired:
             raise invalid(path + ("ingredient",), "current_ingredient", f"ingredient '{record.id}' was retired on {record.retired_on}: {record.retired_reason}")
         return Resolved(record.id, record.name, record.ionic_class, record.physical_state, record.hlb_is_apparent, record,

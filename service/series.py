@@ -14,7 +14,7 @@ from service.core.series import estimate_from_pass_fail, estimate_from_scores, f
 from service.equipment import equipment_from, equipment_out
 from service.lookups import enforce_strict, required_value
 from service.notices import finding_warnings
-from service.resolve import resolve
+from service.resolve import check_references, resolve
 from service.units import to_canonical
 from service.rows import Row, measure_row, row_density
 
@@ -23,6 +23,7 @@ CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}
 
 
 def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
+    check_references(data, registry)
     values_used: list[dict] = []
     pair = [resolve(p, ("pair", i), registry) for i, p in enumerate(data["pair"])]
     hlbs = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in pair]
@@ -78,6 +79,7 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
 
 
 def evaluate(data: dict, registry: Registry, strict: bool = False) -> dict:
+    check_references(data, registry)
     tests = data["tests"]
     values_used: list[dict] = []
     pair_hlbs = None

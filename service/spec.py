@@ -36,7 +36,8 @@ ERRORS = {
     "413": "The body is too large.",
     "406": "None of the media types the request accepts is offered (application/json, text/markdown, text/plain).",
     "415": "The body is not application/json.",
-    "422": "The input broke a rule of the schema or of the calculation; each fault is named by pointer and rule.",
+    "422": "The input broke a rule of the schema or of the calculation; each fault is named by pointer and rule. Every unknown or "
+           "retired ingredient id is named at once, an unknown one with the closest ids in `suggestions`.",
 }
 BODY_ERRORS = ("400", "405", "411", "413", "415", "422")
 SHEET_ERRORS = ("400", "405", "406", "411", "413", "415", "422")
@@ -91,10 +92,12 @@ OPERATIONS = [
      "The group numbers Davies' method uses, with their sources and status.",
      None, None, estimates.DaviesGroupListSchema, GET_ERRORS, "registry"),
     ("/v1/ingredients", "get", "listIngredients", "List ingredients",
-     "Ingredients in the registry, filtered by role, ionic class and HLB range, with their preferred figures.",
+     "Current ingredients in the registry, sorted by name, with their preferred figures: searched with `q` (a case-insensitive "
+     "part of a name, synonym or id), and filtered by role, function, ionic class and HLB range.",
      None, ingredients.IngredientQuerySchema, ingredients.IngredientListSchema, ("405", "422"), "registry"),
     ("/v1/ingredients/{ingredient_id}", "get", "getIngredient", "One ingredient with every value and its provenance",
-     "Every recorded value of the ingredient, with its source, locator, status and notes.",
+     "Every recorded value of the ingredient, with its source, locator, status and notes. An unknown id is a 404 whose "
+     "`suggestions` hold the closest ids.",
      None, None, ingredients.IngredientAnswerSchema, ("404", "405"), "registry"),
     ("/v1/sources", "get", "listSources", "The bibliography", "Every source the registry and the methods cite.",
      None, None, ingredients.SourceListSchema, GET_ERRORS, "registry"),

@@ -18,7 +18,7 @@ from service.equipment import equipment_from, equipment_out
 from service.lookups import enforce_strict, hlb_ranges, required_value
 from service.notices import apparent_hlb_warning, finding_warnings
 from service.emulsifier_system import DISPERSED, emulsifier_rows
-from service.resolve import RHLB_PROPERTY, density_value, invalid, resolve
+from service.resolve import RHLB_PROPERTY, check_references, density_value, invalid, resolve
 from service.rows import Row, measure_row, row_density
 from service.units import from_canonical, to_canonical
 
@@ -202,6 +202,7 @@ def _row_out(row: Row, b, measure: dict, checks, volume, mass_unit: str, volume_
 
 
 def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_from: dict | None = None) -> dict:
+    check_references(data, registry)
     c = compute(data, registry, strict)
     balance, graduates, defaults = equipment_from(data.get("equipment", {}))
     units = data.get("output_units", {})
@@ -259,6 +260,7 @@ def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_fro
 def rescale(data: dict, registry: Registry, strict: bool = False) -> dict:
     """The worksheet for another batch size: every share is carried over as
     the % w/w it had in the original batch."""
+    check_references(data, registry)
     original = data["worksheet"]
     c = compute(original, registry, strict)
     formula_rows = [r for r in c.rows if r.role != "emulsifier"]

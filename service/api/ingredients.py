@@ -5,6 +5,7 @@ from flask import Blueprint, current_app
 
 from service.api.io import answer, load_query
 from service.errors import ApiProblem
+from service.resolve import unknown_ingredient
 from service import registry_views
 from service.schemas import ingredients as schemas
 
@@ -24,7 +25,8 @@ def get_ingredient(ingredient_id: str):
     registry = current_app.extensions["registry"]
     found = registry_views.ingredient_detail(registry, ingredient_id)
     if found is None:
-        raise ApiProblem(404, "Not Found", f"no ingredient '{ingredient_id}' in the registry; GET /v1/ingredients lists them")
+        detail, near = unknown_ingredient(registry, ingredient_id)
+        raise ApiProblem(404, "Not Found", detail, suggestions=near)
     return answer(ONE_OUT, found)
 
 

@@ -2,7 +2,7 @@
 provenance, and the bibliography."""
 from __future__ import annotations
 
-from marshmallow import Schema, ValidationError, fields, validates_schema
+from marshmallow import Schema, ValidationError, fields, validate, validates_schema
 
 from registry.model import FUNCTIONS
 from service.schemas.answers import CitationSchema, RegistryVersionSchema
@@ -12,7 +12,13 @@ ROLES = ("surfactant", "oil_phase", "aqueous_phase", "hydrocolloid")
 IONIC_CLASSES = ("nonionic", "anionic", "cationic", "amphoteric", "not_applicable")
 
 
+# Longer than any name or synonym the registry holds (ids are at most 80).
+MAX_SEARCH_LENGTH = 120
+
+
 class IngredientQuerySchema(Schema):
+    q = fields.String(validate=validate.Length(min=1, max=MAX_SEARCH_LENGTH), metadata={
+        "description": "Ingredients whose name, a synonym or the id holds this text, ignoring case (e.g. `oleate`)."})
     role = one_of(ROLES)
     ionic_class = one_of(IONIC_CLASSES)
     function = one_of(FUNCTIONS, metadata={"description": "Ingredients with this function in a formula (e.g. emulsifier)."})

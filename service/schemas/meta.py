@@ -16,6 +16,8 @@ class ProblemItemSchema(Schema):
     parameter = fields.String(metadata={"description": "The offending query parameter."})
     rule = fields.String(metadata={"description": "Short name of the rule broken, where there is one."})
     detail = fields.String(required=True)
+    suggestions = fields.List(fields.String(), metadata={
+        "description": "For an unknown ingredient id (rule known_ingredient): the closest registry ids, best first; may be empty."})
 
     class Meta:
         unknown = "include"
@@ -30,6 +32,7 @@ class ProblemSchema(Schema):
     detail = fields.String(required=True)
     errors = fields.List(fields.Nested(ProblemItemSchema))
     error_id = fields.String()
+    suggestions = fields.List(fields.String(), metadata={"description": "For an unknown ingredient in the path: the closest registry ids, best first."})
 
     class Meta:
         unknown = "include"

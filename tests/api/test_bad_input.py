@@ -134,3 +134,56 @@ def test_other_calculations_refuse_bad_input(client, path, body, pointer):
     r = client.post(path, json=body)
     assert r.status_code == 422, r.get_data(as_text=True)
     assert pointer in problem_pointers(r)
+
+
+def test_every_unknown_ingredient_is_named_in_one_problem(client):
+    body = {"components": [comp("polysorbate-8", 9, "g"), comp("sorbitan-monooleate", 1, "g"), comp("glycerol", 1, "g"),
+                           comp("zzzz-qqqq", 1, "g")]}
+    r = client.post(BLEND, json=body)
+    assert problem_pointers(r) == ["#/components/0/ingredient", "#/components/2/ingredient", "#/components/3/ingredient"]
+    errors = r.get_json()["errors"]
+    assert all(e["rule"] == "known_ingredient" for e in errors)
+    assert errors[0]["suggestions"][0] == "polysorbate-80" and "did you mean 'polysorbate-80'" in errors[0]["detail"]
+    assert errors[1]["suggestions"] == ["glycerin"]  # a synonym of glycerin
+    assert errors[2]["suggestions"] == [] and "did you mean" not in errors[2]["detail"]
+    assert r.get_json()["detail"].startswith("3 unknown or retired ingredient(s); first at #/components/0/ingredient")
+
+
+def test_ids_are_checked_before_the_calculation(client):
+    # Mixed bases would be refused by the calculation; the unknown id is named first, with the others.
+    body = {"components": [comp("polysorbate-80", 3, "g"), comp("sorbitan-monoolate", 1, "parts")]}
+    r = client.post(BLEND, json=body)
+    assert problem_pointers(r) == ["#/components/1/ingredient"] and r.get_json()["errors"][0]["rule"] == "known_ingredient"
+
+
+def test_unknown_ids_everywhere_in_a_worksheet(client):
+    sheet = {"emulsion_type": "O/W", "batch": {"value": 100, "unit": "g"},
+             "ingredients": [{"ingredient": "mineral-oi", "phase": "oil", "share": {"value": 10, "unit": "% w/w"}},
+                             {"ingredient": "purified-water", "phase": "aqueous", "qs": True}],
+             "emulsifier": {"pair": [{"ingredient": "polysorbate-80"}, {"ingredient": "sorbitan-monoolate"}], "total_percent_w_w": 5}}
+    r = client.post("/v1/worksheets", json=sheet)
+    assert problem_pointers(r) == ["#/ingredients/0/ingredient", "#/emulsifier/pair/1/ingredient"]
+    r = client.post("/v1/worksheets/rescale", json={"worksheet": sheet, "batch": {"value": 50, "unit": "g"}})
+    assert problem_pointers(r) == ["#/worksheet/ingredients/0/ingredient", "#/worksheet/emulsifier/pair/1/ingredient"]
+    assert [e["suggestions"][0] for e in r.get_json()["errors"]] == ["mineral-oil", "sorbitan-monooleate"]
+
+
+def test_unknown_and_retired_ingredients_together(tmp_path):
+    import shutil
+
+    from registry import DEFAULT_ROOT
+    from service import create_app
+
+    root = tmp_path / "data"
+    shutil.copytree(DEFAULT_ROOT, root)
+    olive = root / "ingredients" / "olive-oil.toml"
+    olive.write_text(olive.read_text().replace('physical_state = "liquid"', 'physical_state = "liquid"\nretired = true\n'
+                                               'retired_on = "2026-12-01"\nretired_reason = "test fixture"', 1))
+    client = create_app({"registry_root": str(root)}).test_client()
+    r = client.post("/v1/oil-phases/required-hlb", json={"emulsion_type": "O/W", "oil_phase": [
+        comp("olive-oil", 1, "g"), comp("mineral-oil", 1, "g"), comp("olive-oi", 1, "g")]})
+    assert problem_pointers(r) == ["#/oil_phase/0/ingredient", "#/oil_phase/2/ingredient"]
+    retired, unknown = r.get_json()["errors"]
+    assert retired["rule"] == "current_ingredient" and "retired on 2026-12-01: test fixture" in retired["detail"]
+    # A retired record is never suggested.
+    assert unknown["rule"] == "known_ingredient" and "olive-oil" not in unknown["suggestions"]

@@ -51,6 +51,41 @@ def test_unknown_ingredient_is_404(client):
     problem_pointers(r)
 
 
+def test_unknown_ingredient_404_suggests_the_closest_ids(client):
+    body = client.get("/v1/ingredients/castr-oil").get_json()
+    assert body["suggestions"][0] == "castor-oil" and "did you mean 'castor-oil'" in body["detail"]
+    # A synonym, written as an id, finds its record.
+    assert client.get("/v1/ingredients/glycerol").get_json()["suggestions"] == ["glycerin"]
+
+
+def test_search_by_name_ignores_case_and_sorts_by_name(client, registry):
+    body = client.get("/v1/ingredients?q=OLEATE").get_json()
+    names = [i["name"] for i in body["ingredients"]]
+    assert body["count"] == len(names) > 1
+    assert all("oleate" in n.casefold() for n in names)
+    assert names == sorted(names, key=str.casefold)
+    assert "sorbitan-monooleate" in {i["id"] for i in body["ingredients"]}
+
+
+def test_search_by_synonym_and_with_filters(client, registry):
+    # glycerin.toml: synonyms = ["glycerol"]
+    assert "glycerin" in [i["id"] for i in client.get("/v1/ingredients?q=glycerol").get_json()["ingredients"]]
+    found = client.get("/v1/ingredients?q=oleate&role=surfactant&hlb_max=5").get_json()["ingredients"]
+    assert found and all(i["hlb"] <= 5 and "surfactant" in i["roles"] for i in found)
+    assert client.get("/v1/ingredients?q=no-such-name").get_json() | {"registry": None} == {"count": 0, "ingredients": [], "registry": None}
+
+
+def test_every_listing_is_sorted_by_name(client):
+    names = [i["name"] for i in client.get("/v1/ingredients").get_json()["ingredients"]]
+    assert names == sorted(names, key=str.casefold)
+
+
+@pytest.mark.parametrize("query", ["q=", "q=" + "x" * 121, "q=a&q=b"])
+def test_bad_searches(client, query):
+    r = client.get(f"/v1/ingredients?{query}")
+    assert r.status_code == 422 and problem_pointers(r) == ["q"]
+
+
 def test_bibliography(client, registry):
     body = client.get("/v1/sources").get_json()
     assert body["count"] == len(registry.sources)

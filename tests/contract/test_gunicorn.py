@@ -86,12 +86,18 @@ def test_gunicorn_refuses_to_start_on_a_broken_registry(tmp_path):
 
     root = tmp_path / "data"
     shutil.copytree(DEFAULT_ROOT, root)
-    path = root / "ingredients" / "olive-oil.toml"
-    text = path.read_text()
-    assert 'source = "martin"' in text
-    path.write_text(text.replace('source = "martin"', 'source = "nowhere"'))
+    for name, old, new in [("olive-oil", 'source = "martin"', 'source = "nowhere"'), ("castor-oil", 'id = "castor-oil"', 'id = "castor"')]:
+        path = root / "ingredients" / f"{name}.toml"
+        text = path.read_text()
+        assert old in text
+        path.write_text(text.replace(old, new, 1))
     env = {**os.environ, "EMULSION_BIND": f"127.0.0.1:{free_port()}", "EMULSION_WORKERS": "1", "EMULSION_REGISTRY_ROOT": str(root)}
     done = subprocess.run([sys.executable, "-m", "gunicorn", "-c", "service/gunicorn_conf.py", "service.wsgi:app"],
                           cwd=ROOT, env=env, capture_output=True, text=True, timeout=60)
+    output = done.stdout + done.stderr
     assert done.returncode != 0
-    assert "data/ingredients/olive-oil.toml: values/required_hlb_ow/0/source: unknown source 'nowhere'" in done.stdout + done.stderr
+    # One short message, every fault on a line of its own, no traceback.
+    assert "Traceback" not in output
+    assert "emulsion service not started: the registry was not accepted: 2 fault(s)" in output
+    assert "  data/ingredients/olive-oil.toml: values/required_hlb_ow/0/source: unknown source 'nowhere'" in output
+    assert "  data/ingredients/castor-oil.toml: id: id 'castor' differs from the file name 'castor-oil'" in output

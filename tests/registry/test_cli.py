@@ -54,6 +54,102 @@ def test_check_reports_every_broken_file(capsys, tree):
     assert "3 error(s)" in err
 
 
+def test_check_lists_every_fault_of_a_file_at_once(capsys, tree):
+    # In one file: a schema fault (a status the schema does not know), a
+    # fault only the loader sees (an unknown source) and a wrong id; in
+    # another, an implausible density. One run names all four.
+    olive = tree / "ingredients" / "olive-oil.toml"
+    edit(olive, 'status = "unverified"', 'status = "trusted"')
+    edit(olive, 'source = "hpe-6"', 'source = "nowhere"')
+    edit(olive, 'id = "olive-oil"', 'id = "olive"')
+    edit(tree / "ingredients" / "glycerin.toml", "value = 1.249", "value = 1249.0")
+    code, out, err = run(capsys, "check", "--root", tree)
+    assert code == 1 and out == ""
+    assert "error: data/ingredients/olive-oil.toml: values/required_hlb_ow/0/status: 'trusted' is not one of" in err
+    assert "error: data/ingredients/olive-oil.toml: functions/source: unknown source 'nowhere'" in err
+    assert "error: data/ingredients/olive-oil.toml: id: id 'olive' differs from the file name 'olive-oil'" in err
+    assert "error: data/ingredients/glycerin.toml: values/density/0/value:" in err
+    assert "4 error(s)" in err
+
+
+def test_check_lists_every_schema_fault_of_a_file(capsys, tree):
+    olive = tree / "ingredients" / "olive-oil.toml"
+    edit(olive, 'status = "unverified"', 'status = "trusted"')
+    edit(olive, 'physical_state = "liquid"', 'physical_state = "gas"')
+    code, _, err = run(capsys, "check", "--root", tree)
+    assert code == 1 and "2 error(s)" in err
+    assert "olive-oil.toml: physical_state: 'gas' is not one of" in err and "olive-oil.toml: values/required_hlb_ow/0/status:" in err
+
+
+def test_a_broken_bibliography_is_one_fault_not_one_per_value(capsys, tree):
+    # Without a readable sources.toml no reference can be checked: the
+    # references are left alone rather than each reported as unknown.
+    edit(tree / "sources.toml", 'kind = "textbook"', 'kind = "rumour"')
+    code, _, err = run(capsys, "check", "--root", tree)
+    assert code == 1 and "sources.toml: sources/martin/kind" in err
+    assert "unknown source" not in err and "1 error(s)" in err
+
+
+def test_check_json(capsys, tree):
+    code, out, _ = run(capsys, "check", "--json")
+    data = json.loads(out)
+    assert code == 0 and data["accepted"] and data["errors"] == [] and data["counts"]["ingredients"] > 0
+    edit(tree / "ingredients" / "olive-oil.toml", 'source = "martin"', 'source = "nowhere"')
+    code, out, err = run(capsys, "check", "--root", tree, "--json")
+    data = json.loads(out)
+    assert code == 1 and err == "" and not data["accepted"] and data["counts"] is None
+    assert data["errors"] == [{"file": "data/ingredients/olive-oil.toml", "field": "values/required_hlb_ow/0/source",
+                               "message": "unknown source 'nowhere' (not in sources.toml)"}]
+
+
+@pytest.mark.parametrize("given", [lambda: DEFAULT_ROOT, lambda: DEFAULT_ROOT.parent], ids=["data folder", "registry folder"])
+def test_root_takes_the_registry_folder_or_its_data_folder(capsys, given):
+    code, out, _ = run(capsys, "check", "--root", given())
+    assert code == 0 and out.startswith("ok: release")
+    code, out, _ = run(capsys, "diff", given(), DEFAULT_ROOT.parent)
+    assert code == 0
+
+
+@pytest.mark.parametrize("given", [lambda: DEFAULT_ROOT / "ingredients", lambda: DEFAULT_ROOT / "no-such-folder"], ids=["not a tree", "missing"])
+def test_root_that_is_not_a_tree_is_a_usage_error(capsys, given):
+    with pytest.raises(SystemExit) as exc:
+        main(["check", "--root", str(given())])
+    assert exc.value.code == 2
+    err = capsys.readouterr().err
+    assert "argument --root:" in err and "give the registry folder (e.g. registry/, which holds data/) or its data folder" in err
+    with pytest.raises(SystemExit) as exc:
+        main(["diff", str(DEFAULT_ROOT), str(given())])
+    assert exc.value.code == 2 and "argument new:" in capsys.readouterr().err
+
+
+def test_version(capsys, registry):
+    with pytest.raises(SystemExit) as exc:
+        main(["--version"])
+    out = capsys.readouterr().out
+    assert exc.value.code == 0
+    assert re.fullmatch(rf"emulsion-registry [0-9][^;]*; registry {re.escape(registry.version)} \(.*\)\n", out)
+
+
+def test_list_json(capsys, registry):
+    code, out, _ = run(capsys, "list", "--role", "oil_phase", "--json")
+    data = json.loads(out)
+    assert code == 0 and data["version"] == registry.version
+    by_id = {i["id"]: i for i in data["ingredients"]}
+    assert "castor-oil" in by_id and "polysorbate-80" not in by_id
+    assert all("oil_phase" in i["roles"] for i in data["ingredients"])
+    assert by_id["castor-oil"]["preferred"]["required_hlb_ow"]["figure"] == registry.get("castor-oil").preferred("required_hlb_ow").figure
+
+
+def test_show_json(capsys, registry):
+    code, out, _ = run(capsys, "show", "castor-oil", "--json")
+    data = json.loads(out)["ingredient"]
+    assert code == 0 and data["id"] == "castor-oil" and data["functions"]["source"]["id"] == "hpe-6"
+    rhlb = data["values"]["required_hlb_ow"]
+    assert [v["doubtful"] for v in rhlb] == [r.doubtful for r in registry.get("castor-oil").values["required_hlb_ow"]]
+    density = data["values"]["density"][0]
+    assert density["basis"] == "specific_gravity_25_25" and density["canonical_unit"] == "g/mL" and density["recorded"] == {"low": 0.957, "high": 0.961}
+
+
 def test_check_refuses_a_unit_that_is_not_a_density(capsys, tree):
     edit(tree / "ingredients" / "purified-water.toml", 'unit = "g/mL"', 'unit = "g/m"')
     code, _, err = run(capsys, "check", "--root", tree)
@@ -97,6 +193,8 @@ def test_show_gives_functions_and_marks_doubtful_values(capsys):
 def test_show_unknown_id(capsys):
     code, out, err = run(capsys, "show", "no-such-thing")
     assert code == 1 and "no ingredient 'no-such-thing'" in err
+    code, _, err = run(capsys, "show", "glycerol")
+    assert code == 1 and "did you mean 'glycerin'?" in err
 
 
 def test_report_counts_and_disagreements(capsys, registry):
@@ -168,7 +266,7 @@ def test_retired_without_reason_is_refused(capsys, tree):
 def test_diff_on_a_broken_tree(capsys, tree):
     edit(tree / "sources.toml", 'kind = "textbook"', 'kind = "rumour"')
     code, _, err = run(capsys, "diff", DEFAULT_ROOT, tree)
-    assert code == 1 and "sources.toml: sources/martin/kind" in err
+    assert code == 2 and "sources.toml: sources/martin/kind" in err and "nothing was compared" in err
 
 
 def test_usage_error_exits_2(capsys):

@@ -8,6 +8,7 @@ from pathlib import Path
 import pytest
 
 from registry import DEFAULT_ROOT, RegistryError, load_registry
+from registry.errors import RegistryFaults
 from registry.model import WATER_DENSITY_25C_G_PER_ML
 from service import create_app
 
@@ -99,6 +100,22 @@ def test_the_service_refuses_to_start_on_a_broken_registry(tree):
     _edit(tree / "ingredients" / "olive-oil.toml", 'source = "martin"', 'source = "nowhere"')
     with pytest.raises(RegistryError, match="olive-oil.toml"):
         create_app({"registry_root": str(tree)})
+
+
+def test_every_fault_is_raised_at_once(tree):
+    _edit(tree / "ingredients" / "olive-oil.toml", 'source = "martin"', 'source = "nowhere"')
+    _edit(tree / "ingredients" / "olive-oil.toml", 'physical_state = "liquid"', 'physical_state = "gas"')
+    _edit(tree / "ingredients" / "castor-oil.toml", 'id = "castor-oil"', 'id = "castor"')
+    with pytest.raises(RegistryFaults) as err:
+        create_app({"registry_root": str(tree)})
+    faults = [(e.file, e.field) for e in err.value.errors]
+    assert faults == [("data/ingredients/castor-oil.toml", "id"), ("data/ingredients/olive-oil.toml", "physical_state"),
+                      ("data/ingredients/olive-oil.toml", "values/required_hlb_ow/0/source")]
+    # The first is also the error's own file and field, as a single fault was.
+    assert (err.value.file, err.value.field) == faults[0]
+    lines = str(err.value).splitlines()
+    assert lines[0] == "the registry was not accepted: 3 fault(s) (file: field: rule)"
+    assert lines[3] == "  data/ingredients/olive-oil.toml: values/required_hlb_ow/0/source: unknown source 'nowhere' (not in sources.toml)"
 
 
 def test_missing_parts_of_the_tree(tmp_path):

@@ -1,6 +1,7 @@
 """The site overlay (a pharmacy's own records and overrides) and strict mode."""
 from __future__ import annotations
 
+import json
 import shutil
 from pathlib import Path
 
@@ -126,3 +127,122 @@ def test_strict_flag_from_environment():
     assert Settings.from_env({}).strict is False
     with pytest.raises(ValueError, match="EMULSION_STRICT"):
         Settings.from_env({"EMULSION_STRICT": "maybe"})
+
+
+# A shipped record meets a site record (registry/FIELDS.md, "The site overlay"):
+# the site record is used, the start-up log and `check` name both records.
+
+SHIPPED_RECORD = '''id = "{id}"
+name = "{name}"
+synonyms = {synonyms}
+roles = ["oil_phase"]
+ionic_class = "not_applicable"
+physical_state = "liquid"
+
+[[values.required_hlb_ow]]
+value = 11.0
+source = "martin"
+kind = "textbook"
+status = "checked_against_source"
+reviewed_by = "registry steward"
+reviewed_on = "2026-12-01"
+note = "Test fixture: invented."
+
+[functions]
+list = ["oil_vehicle"]
+source = "hpe-6"
+status = "unverified"
+recalled_from_memory = true
+'''
+
+
+def _upgraded_tree(tmp_path, iid: str, name: str, synonyms: list[str]) -> Path:
+    """A copy of the shipped tree whose next release ships a record the
+    fixture overlay's site record meets, with its review in the lock."""
+    from registry import DEFAULT_ROOT
+    from registry.cli import main
+
+    root = tmp_path / "data"
+    shutil.copytree(DEFAULT_ROOT, root)
+    (root / "ingredients" / f"{iid}.toml").write_text(SHIPPED_RECORD.format(id=iid, name=name, synonyms=json.dumps(synonyms)))
+    assert main(["lock", "--root", str(root)]) == 0
+    return root
+
+
+def test_a_shipped_record_with_a_site_records_id(tmp_path, capsys, caplog):
+    root = _upgraded_tree(tmp_path, "caprylic-capric-triglyceride", "Caprylic/capric triglyceride", [])
+    site = load_registry(root, OVERLAY)
+    record = site.get("caprylic-capric-triglyceride")
+    # The site's own record, whole, as before the upgrade: its figure, not the shipped one.
+    assert record.local and record.preferred("required_hlb_ow").figure == 10.5
+    assert [r.figure for r in record.values["required_hlb_ow"]] == [10.5]
+    assert site.shadowed["caprylic-capric-triglyceride"].preferred("required_hlb_ow").figure == 11.0
+    (collision,) = site.collisions
+    assert (collision.kind, collision.site_file, collision.shipped_file) == (
+        "id", "site-overlay/ingredients/caprylic-capric-triglyceride.toml", "data/ingredients/caprylic-capric-triglyceride.toml")
+    # check passes (the shipped record's reviewed value is still under the lock) and says so.
+    capsys.readouterr()
+    from registry.cli import main
+    assert main(["check", "--root", str(root), "--overlay", str(OVERLAY)]) == 0
+    err = capsys.readouterr().err
+    assert err.startswith("warning: site-overlay/ingredients/caprylic-capric-triglyceride.toml: id: site record "
+                          "'caprylic-capric-triglyceride' has the id of shipped record 'caprylic-capric-triglyceride' "
+                          "(data/ingredients/caprylic-capric-triglyceride.toml): this site uses its own record")
+    assert "keep only id, values and note in the site file" in err
+    # The service starts, uses the site record, and logs the collision.
+    with caplog.at_level("WARNING", logger="service"):
+        app = create_app({"registry_root": str(root), "site_overlay": str(OVERLAY)})
+    assert any("site overlay: site-overlay/ingredients/caprylic-capric-triglyceride.toml: id:" in m for m in caplog.messages)
+    body = app.test_client().post("/v1/oil-phases/required-hlb", json={"emulsion_type": "O/W", "oil_phase": [
+        comp("caprylic-capric-triglyceride", 1, "g")]}).get_json()
+    assert body["result"]["required_hlb"] == 10.5 and body["values_used"][0]["local"]
+
+
+def test_a_shipped_record_with_a_site_records_names(tmp_path, capsys):
+    from registry.cli import main
+    from registry.lookup import labels, search
+
+    # The shipped name is the site record's synonym, and a shipped synonym its name.
+    root = _upgraded_tree(tmp_path, "medium-chain-triglycerides", "Medium-chain triglycerides",
+                          ["caprylic/capric triglyceride", "fractionated coconut oil"])
+    site = load_registry(root, OVERLAY)
+    assert [(c.kind, c.label, c.field, c.shipped_id) for c in site.collisions] == [
+        ("label", "Caprylic/capric triglyceride", "name", "medium-chain-triglycerides"),
+        ("label", "medium-chain triglycerides", "synonyms", "medium-chain-triglycerides")]
+    shipped = site.get("medium-chain-triglycerides")
+    # Both records load whole; the shipped one keeps its names as data, but
+    # lookups by the two it shares find the site record only.
+    assert shipped.synonyms == ("caprylic/capric triglyceride", "fractionated coconut oil")
+    assert labels(site, shipped) == ["fractionated coconut oil"]
+    assert site.names["caprylic/capric triglyceride"] == site.names["medium-chain triglycerides"] == "caprylic-capric-triglyceride"
+    assert [i.id for i in search(site, "caprylic/capric")] == ["caprylic-capric-triglyceride"]
+    assert [i.id for i in search(site, "fractionated")] == ["medium-chain-triglycerides"]
+    # Without the overlay the shipped record has every name.
+    assert labels(load_registry(root), shipped) == ["Medium-chain triglycerides", "caprylic/capric triglyceride", "fractionated coconut oil"]
+    capsys.readouterr()
+    assert main(["check", "--root", str(root), "--overlay", str(OVERLAY)]) == 0
+    err = capsys.readouterr().err
+    assert ("warning: site-overlay/ingredients/caprylic-capric-triglyceride.toml: synonyms: 'medium-chain triglycerides' names "
+            "site record 'caprylic-capric-triglyceride' and shipped record 'medium-chain-triglycerides' "
+            "(data/ingredients/medium-chain-triglycerides.toml): lookups by it find the site record only") in err
+    client = create_app({"registry_root": str(root), "site_overlay": str(OVERLAY)}).test_client()
+    found = client.get("/v1/ingredients?q=Caprylic%2FCapric").get_json()["ingredients"]
+    assert [i["id"] for i in found] == ["caprylic-capric-triglyceride"]
+    # Resolved by retiring the site record: the shared names go back to the shipped one.
+    overlay = _copy_overlay(tmp_path)
+    path = overlay / "ingredients" / "caprylic-capric-triglyceride.toml"
+    path.write_text(path.read_text().replace('physical_state = "liquid"', 'physical_state = "liquid"\nretired = true\n'
+                                             'retired_on = "2026-12-01"\nretired_reason = "the registry ships it"', 1))
+    site = load_registry(root, overlay)
+    assert site.collisions == () and site.names["medium-chain triglycerides"] == "medium-chain-triglycerides"
+    assert [i.id for i in search(site, "caprylic/capric")] == ["medium-chain-triglycerides"]
+
+
+def test_two_site_records_may_not_share_a_name(tmp_path):
+    overlay = _copy_overlay(tmp_path)
+    text = (overlay / "ingredients" / "caprylic-capric-triglyceride.toml").read_text()
+    (overlay / "ingredients" / "house-oil.toml").write_text(
+        text.replace('id = "caprylic-capric-triglyceride"', 'id = "house-oil"').replace('name = "Caprylic/capric triglyceride"', 'name = "House oil"'))
+    with pytest.raises(RegistryError) as err:
+        load_registry(overlay=overlay)
+    assert err.value.field == "synonyms" and "'medium-chain triglycerides' already names ingredient 'caprylic-capric-triglyceride'" in err.value.message
