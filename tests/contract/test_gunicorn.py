@@ -35,10 +35,15 @@ def server():
                 break
         except OSError:
             if proc.poll() is not None:
-                pytest.fail("gunicorn exited: " + proc.stdout.read().decode(errors="replace"))
+                # Close the pipe before failing, or its ResourceWarning fails an unrelated later test.
+                with proc.stdout:
+                    output = proc.stdout.read().decode(errors="replace")
+                pytest.fail(f"gunicorn exited with status {proc.returncode}: {output}")
             time.sleep(0.1)
     else:
         proc.kill()
+        proc.wait(timeout=30)
+        proc.stdout.close()
         pytest.fail("gunicorn did not start")
     yield port
     proc.terminate()
