@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import json
 import re
-import shutil
 import subprocess
 import sys
 from pathlib import Path
@@ -13,27 +12,9 @@ import pytest
 
 from registry import DEFAULT_ROOT
 from registry.cli import main
+from tests.registry.helpers import run, edit
 
 OVERLAY = Path(__file__).resolve().parents[1] / "fixtures" / "site-overlay"
-
-
-@pytest.fixture()
-def tree(tmp_path) -> Path:
-    root = tmp_path / "data"
-    shutil.copytree(DEFAULT_ROOT, root)
-    return root
-
-
-def run(capsys, *argv):
-    code = main(list(map(str, argv)))
-    out, err = capsys.readouterr()
-    return code, out, err
-
-
-def edit(path: Path, old: str, new: str) -> None:
-    text = path.read_text()
-    assert old in text
-    path.write_text(text.replace(old, new, 1))
 
 
 def test_check_shipped_registry(capsys, registry):

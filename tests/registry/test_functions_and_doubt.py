@@ -31,13 +31,6 @@ SURFACTANTS_NOT_EMULSIFYING = {"ethylene-glycol-distearate"}
 EMULSIFYING_WITHOUT_SURFACTANT_ROLE = {"anhydrous-lanolin"}
 
 
-@pytest.fixture()
-def tree(tmp_path) -> Path:
-    root = tmp_path / "data"
-    shutil.copytree(DEFAULT_ROOT, root)
-    return root
-
-
 def _edit(path: Path, old: str, new: str) -> None:
     text = path.read_text()
     assert old in text

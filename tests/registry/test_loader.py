@@ -2,7 +2,6 @@
 refused with the file and the field named."""
 from __future__ import annotations
 
-import shutil
 from pathlib import Path
 
 import pytest
@@ -13,13 +12,6 @@ from registry.model import WATER_DENSITY_25C_G_PER_ML
 from service import create_app
 
 INGREDIENT_FILES = sorted((DEFAULT_ROOT / "ingredients").glob("*.toml"))
-
-
-@pytest.fixture()
-def tree(tmp_path) -> Path:
-    root = tmp_path / "data"
-    shutil.copytree(DEFAULT_ROOT, root)
-    return root
 
 
 @pytest.mark.parametrize("path", INGREDIENT_FILES, ids=lambda p: p.stem)

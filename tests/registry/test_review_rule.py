@@ -4,15 +4,14 @@ refuses to launder an unreviewed change), `diff` judges two trees by the
 same rule. Each test works on a copy of the shipped tree."""
 from __future__ import annotations
 
-import shutil
 import tomllib
 from pathlib import Path
 
 import pytest
 
 from registry import DEFAULT_ROOT, RegistryError, load_registry
-from registry.cli import main
 from registry.review import LOCK_NAME, render_lock
+from tests.registry.helpers import run, edit
 
 GLYCERIN = Path("ingredients") / "glycerin.toml"
 GLYCERIN_MOLAR_MASS = 'value = 92.094\nunit = "g/mol"'
@@ -20,25 +19,6 @@ GLYCERIN_REVIEW = ('reviewed_by = "reference-library check: molmass, tests/regis
                    'reviewed_on = "2026-12-01"')
 RENEWED = 'reviewed_by = "steward A"\nreviewed_on = "2027-01-15"'
 REVIEW_SECTION = "review (status changes, and changes to reviewed values"
-
-
-@pytest.fixture()
-def tree(tmp_path) -> Path:
-    root = tmp_path / "data"
-    shutil.copytree(DEFAULT_ROOT, root)
-    return root
-
-
-def run(capsys, *argv):
-    code = main(list(map(str, argv)))
-    out, err = capsys.readouterr()
-    return code, out, err
-
-
-def edit(path: Path, old: str, new: str) -> None:
-    text = path.read_text()
-    assert old in text
-    path.write_text(text.replace(old, new, 1))
 
 
 def review_section(out: str) -> str:
