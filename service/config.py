@@ -32,6 +32,8 @@ class Settings:
     # Refuse unverified registry values in every calculation.
     strict: bool = False
     max_body_bytes: int = DEFAULT_MAX_BODY_BYTES
+    # Flask's testing mode (exceptions propagate to the test client); tests only.
+    testing: bool = False
 
     @classmethod
     def from_env(cls, env: dict | None = None) -> "Settings":

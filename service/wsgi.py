@@ -1,6 +1,6 @@
 """gunicorn entry point: gunicorn -c service/gunicorn_conf.py service.wsgi:app"""
 from registry import RegistryError
-from service import create_app
+from service.http.app import create_app
 
 try:
     app = create_app()

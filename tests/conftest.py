@@ -5,7 +5,7 @@ from __future__ import annotations
 import pytest
 
 from registry import load_registry
-from service import create_app
+from service.http.app import create_app
 
 
 @pytest.fixture(scope="session")

@@ -172,7 +172,7 @@ def test_unknown_and_retired_ingredients_together(tmp_path):
     import shutil
 
     from registry import DEFAULT_ROOT
-    from service import create_app
+    from service.http.app import create_app
 
     root = tmp_path / "data"
     shutil.copytree(DEFAULT_ROOT, root)

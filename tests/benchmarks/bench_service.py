@@ -12,7 +12,7 @@ import statistics
 import time
 
 from registry import load_registry
-from service import create_app
+from service.http.app import create_app
 from service.examples import EXAMPLES
 
 PATHS = {"blendHlb": "/v1/blends/hlb", "blendProportions": "/v1/blends/proportions", "oilPhaseRequiredHlb": "/v1/oil-phases/required-hlb",

@@ -97,7 +97,7 @@ def test_readme_example_gives_the_output_shown(client, command, kind, shown):
 
 
 def main() -> int:
-    from service import create_app
+    from service.http.app import create_app
 
     client = create_app().test_client()
     text = README.read_text(encoding="utf-8")

@@ -17,7 +17,7 @@ from schemathesis.specs.openapi.checks import (
 )
 from schemathesis.checks import not_a_server_error
 
-from service import create_app
+from service.http.app import create_app
 
 CONFIG = SchemathesisConfig.from_path(Path(__file__).with_name("schemathesis.toml"))
 APP = create_app()

@@ -9,7 +9,7 @@ import pytest
 from registry import DEFAULT_ROOT, RegistryError, load_registry
 from registry.errors import RegistryFaults
 from registry.model import WATER_DENSITY_25C_G_PER_ML
-from service import create_app
+from service.http.app import create_app
 
 INGREDIENT_FILES = sorted((DEFAULT_ROOT / "ingredients").glob("*.toml"))
 

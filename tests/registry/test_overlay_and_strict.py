@@ -8,7 +8,7 @@ from pathlib import Path
 import pytest
 
 from registry import RegistryError, load_registry
-from service import create_app
+from service.http.app import create_app
 from tests.api.helpers import comp, inline, problem_pointers, unverified_surfactants
 
 OVERLAY = Path(__file__).resolve().parents[1] / "fixtures" / "site-overlay"

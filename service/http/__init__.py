@@ -1,0 +1,1 @@
+"""The HTTP layer: the application factory, and (later) everything that knows Flask."""

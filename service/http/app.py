@@ -1,0 +1,55 @@
+"""The application factory: create_app(config=None) and nothing else of weight."""
+from __future__ import annotations
+
+import logging
+from typing import Mapping
+
+from flask import Flask
+
+from registry import load_registry
+from service.config import Settings
+
+
+def create_app(config: Mapping | None = None) -> Flask:
+    """Build the app. `config` overrides settings (keys of Settings, e.g.
+    registry_root, site_overlay, strict); without it they come from the
+    environment. A bad registry or overlay raises RegistryFaults (a
+    RegistryError listing every fault) here, so the service never starts on
+    partial data. Where the overlay meets shipped records, each collision is
+    logged as a warning, naming both records and how to resolve it."""
+    from service.api import calculations, estimates, ingredients, meta, worksheets
+    from service.errors import register_error_handlers
+    from service.jsonio import StrictJSONProvider
+    from service.spec import build_spec, spec_json
+
+    settings = Settings.from_env()
+    if config:
+        settings = Settings(**{**settings.__dict__, **dict(config)})
+    registry = load_registry(settings.registry_root, settings.site_overlay)
+
+    app = Flask(__name__)
+    app.json = StrictJSONProvider(app)
+    app.testing = settings.testing
+    app.config["MAX_BODY_BYTES"] = settings.max_body_bytes
+    app.config["STRICT"] = settings.strict
+    # werkzeug's own limit backs ours up for bodies read elsewhere.
+    app.config["MAX_CONTENT_LENGTH"] = settings.max_body_bytes
+    app.extensions["registry"] = registry
+    spec = build_spec()
+    app.extensions["openapi"] = spec
+    app.extensions["openapi_json"] = spec_json(spec)
+
+    register_error_handlers(app)
+    for module in (calculations, worksheets, estimates, ingredients, meta):
+        app.register_blueprint(module.bp)
+
+    @app.after_request
+    def _registry_header(response):
+        response.headers["Registry-Version"] = registry.version
+        return response
+
+    log = logging.getLogger("service")
+    for c in registry.collisions:
+        log.warning("site overlay: %s: %s: %s", c.site_file, c.field, c.message)
+    log.info("registry %s loaded: %d ingredients", registry.version, len(registry.ingredients))
+    return app
