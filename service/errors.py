@@ -10,7 +10,8 @@ from flask import Flask, json, Response
 from marshmallow import ValidationError
 from werkzeug.exceptions import HTTPException
 
-from service.core.errors import CalculationError
+# pointer is re-exported: the HTTP layer's own faults use it too.
+from service.core.errors import CalculationError, InvalidInput, UnverifiedValuesRefused, pointer
 
 PROBLEM_TYPE = "application/problem+json"
 log = logging.getLogger("service")
@@ -31,11 +32,6 @@ class ApiProblem(Exception):
         self.errors = errors
         self.headers = headers or {}
         self.extra = extra
-
-
-def pointer(path) -> str:
-    """A JSON pointer in the URI-fragment form RFC 9457's examples use."""
-    return "#/" + "/".join(str(p).replace("~", "~0").replace("/", "~1") for p in path)
 
 
 def flatten_messages(messages, path=()) -> list[dict]:
@@ -92,6 +88,15 @@ def register_error_handlers(app: Flask) -> None:
         # Core paths are relative to the request body, so they are pointers as they stand.
         errors = [{"pointer": pointer(exc.path), "rule": exc.rule, "detail": exc.message, **exc.extra}]
         return problem_response(422, "Calculation refused", exc.message, type_=TYPE_CALCULATION, errors=errors)
+
+    # The domain's refusals, each as the one problem the docs page describes.
+    @app.errorhandler(InvalidInput)
+    def _invalid_input(exc: InvalidInput):
+        return problem_response(422, "Invalid input", exc.detail, type_=TYPE_INVALID_INPUT, errors=exc.faults)
+
+    @app.errorhandler(UnverifiedValuesRefused)
+    def _unverified(exc: UnverifiedValuesRefused):
+        return problem_response(422, "Unverified values refused", exc.detail, type_=TYPE_CALCULATION, errors=exc.faults)
 
     @app.errorhandler(HTTPException)
     def _http(exc: HTTPException):

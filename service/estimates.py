@@ -17,7 +17,7 @@ from service.core.estimates import (
     griffin_oxyethylene,
     griffin_saponification,
 )
-from service.errors import pointer
+from service.core.errors import pointer
 from service.lookups import enforce_strict
 from service.resolve import figures_differ, invalid
 

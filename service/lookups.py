@@ -6,7 +6,7 @@ from typing import Sequence
 
 from registry import Registry
 from service.core.amounts import ABSOLUTE, Amount
-from service.errors import TYPE_CALCULATION, ApiProblem
+from service.core.errors import UnverifiedValuesRefused
 from service.resolve import Resolved, density_value, invalid, scalar_value
 
 # Class A prescription balance (USP <1176>): sensitivity requirement 6 mg, and
@@ -42,8 +42,7 @@ def enforce_strict(values_used: list[dict], strict: bool) -> None:
     if refused:
         errors = [{"pointer": v["pointer"], "rule": "verified_values_only",
                    "detail": f"{v['ingredient']} {v['property']} ({v['figure']:g}, source {v['source']['id']}) is unverified"} for v in refused]
-        raise ApiProblem(422, "Unverified values refused", f"strict mode: {len(refused)} value(s) used here are not yet checked against their source",
-                         type_=TYPE_CALCULATION, errors=errors)
+        raise UnverifiedValuesRefused(errors, f"strict mode: {len(refused)} value(s) used here are not yet checked against their source")
 
 
 def hlb_ranges(registry: Registry) -> dict[str, tuple[float, float]]:

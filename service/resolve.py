@@ -10,7 +10,7 @@ from registry import Ingredient, Registry, ValueRecord
 from registry.lookup import closest, either
 from service.core.amounts import Amount
 from service.core.blend import HlbValue
-from service.errors import TYPE_INVALID_INPUT, ApiProblem, pointer
+from service.core.errors import InvalidInput, pointer
 from service.units import to_canonical
 
 # Physically plausible densities, g/mL: anything outside is a unit slip.
@@ -19,9 +19,8 @@ DENSITY_RANGE_G_PER_ML = (0.05, 25.0)
 RHLB_PROPERTY = {"O/W": "required_hlb_ow", "W/O": "required_hlb_wo"}
 
 
-def invalid(path: tuple, rule: str, detail: str) -> ApiProblem:
-    return ApiProblem(422, "Invalid input", f"at {pointer(path)}: {detail}", type_=TYPE_INVALID_INPUT,
-                      errors=[{"pointer": pointer(path), "rule": rule, "detail": detail}])
+def invalid(path: tuple, rule: str, detail: str) -> InvalidInput:
+    return InvalidInput.at(path, rule, detail)
 
 
 @dataclass
@@ -86,8 +85,7 @@ def check_references(data: dict, registry: Registry) -> None:
             errors.append({"pointer": where, "rule": "current_ingredient",
                            "detail": f"ingredient '{record.id}' was retired on {record.retired_on}: {record.retired_reason}"})
     if errors:
-        raise ApiProblem(422, "Invalid input", f"{len(errors)} unknown or retired ingredient(s); first at {errors[0]['pointer']}: {errors[0]['detail']}",
-                         type_=TYPE_INVALID_INPUT, errors=errors)
+        raise InvalidInput(errors, f"{len(errors)} unknown or retired ingredient(s); first at {errors[0]['pointer']}: {errors[0]['detail']}")
 
 
 def resolve(ref: dict, path: tuple, registry: Registry) -> Resolved:
@@ -99,8 +97,7 @@ def resolve(ref: dict, path: tuple, registry: Registry) -> Resolved:
             # check_references has refused every id in the request before this;
             # an id the service supplies itself (a default vehicle) may still land here.
             detail, near = unknown_ingredient(registry, ref["ingredient"])
-            raise ApiProblem(422, "Invalid input", f"at {pointer(path + ('ingredient',))}: {detail}", type_=TYPE_INVALID_INPUT,
-                             errors=[{"pointer": pointer(path + ("ingredient",)), "rule": "known_ingredient", "detail": detail, "suggestions": near}])
+            raise InvalidInput.at(path + ("ingredient",), "known_ingredient", detail, suggestions=near)
         if record.retired:
             raise invalid(path + ("ingredient",), "current_ingredient", f"ingredient '{record.id}' was retired on {record.retired_on}: {record.retired_reason}")
         return Resolved(record.id, record.name, record.ionic_class, record.physical_state, record.hlb_is_apparent, record,

@@ -1,6 +1,13 @@
-"""Errors of the calculations. Each names where in the input the fault lies
-(a path of keys and indexes, as the caller's input is shaped) and the rule."""
+"""The service's one error vocabulary, below the HTTP layer. Each error names
+where in the input the fault lies (a path of keys and indexes, as the caller's
+input is shaped, or its JSON pointer) and the rule broken; only service/errors.py
+turns them into problem+json with a status."""
 from __future__ import annotations
+
+
+def pointer(path) -> str:
+    """A JSON pointer in the URI-fragment form RFC 9457's examples use."""
+    return "#/" + "/".join(str(p).replace("~", "~0").replace("/", "~1") for p in path)
 
 
 class CalculationError(ValueError):
@@ -26,3 +33,29 @@ class InfeasibleTarget(CalculationError):
             reachable_high=reachable_high,
             nearest_reachable=nearest,
         )
+
+
+class FaultList(ValueError):
+    """Several faults refused together: `faults` is a list of dicts, each with
+    its pointer, rule and detail (and any extra member, e.g. suggestions);
+    `detail` sums them up. Not a CalculationError, so the use cases' handlers
+    of calculation errors never swallow one."""
+
+    def __init__(self, faults: list[dict], detail: str):
+        self.faults = list(faults)
+        self.detail = detail
+        super().__init__(detail)
+
+
+class InvalidInput(FaultList):
+    """The request names something unknown, retired or implausible."""
+
+    @classmethod
+    def at(cls, path: tuple, rule: str, detail: str, **extra) -> "InvalidInput":
+        """One fault at `path` in the request body."""
+        return cls([{"pointer": pointer(path), "rule": rule, "detail": detail, **extra}], f"at {pointer(path)}: {detail}")
+
+
+class UnverifiedValuesRefused(FaultList):
+    """Strict mode: the calculation would use registry values not yet checked
+    against their source."""
