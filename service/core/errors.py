@@ -1,6 +1,6 @@
 """The service's one error vocabulary, below the HTTP layer. Each error names
 where in the input the fault lies (a path of keys and indexes, as the caller's
-input is shaped, or its JSON pointer) and the rule broken; only service/errors.py
+input is shaped, or its JSON pointer) and the rule broken; only service/http/problems.py
 turns them into problem+json with a status."""
 from __future__ import annotations
 

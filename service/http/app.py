@@ -7,7 +7,7 @@ from typing import Mapping
 from flask import Flask
 
 from registry import load_registry
-from service.config import Settings
+from service.http.config import Settings
 
 
 def create_app(config: Mapping | None = None) -> Flask:
@@ -17,10 +17,10 @@ def create_app(config: Mapping | None = None) -> Flask:
     RegistryError listing every fault) here, so the service never starts on
     partial data. Where the overlay meets shipped records, each collision is
     logged as a warning, naming both records and how to resolve it."""
-    from service.api import calculations, estimates, ingredients, meta, worksheets
-    from service.errors import register_error_handlers
-    from service.jsonio import StrictJSONProvider
-    from service.spec import build_spec, spec_json
+    from service.http.blueprints import calculation_views, estimate_views, ingredient_views, meta_views, worksheet_views
+    from service.http.problems import register_error_handlers
+    from service.http.jsonio import StrictJSONProvider
+    from service.http.spec import build_spec, spec_json
 
     settings = Settings.from_env()
     if config:
@@ -40,7 +40,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     app.extensions["openapi_json"] = spec_json(spec)
 
     register_error_handlers(app)
-    for module in (calculations, worksheets, estimates, ingredients, meta):
+    for module in (calculation_views, worksheet_views, estimate_views, ingredient_views, meta_views):
         app.register_blueprint(module.bp)
 
     @app.after_request

@@ -13,7 +13,7 @@ import time
 
 from registry import load_registry
 from service.http.app import create_app
-from service.examples import EXAMPLES
+from service.http.spec_examples import EXAMPLES
 
 PATHS = {"blendHlb": "/v1/blends/hlb", "blendProportions": "/v1/blends/proportions", "oilPhaseRequiredHlb": "/v1/oil-phases/required-hlb",
          "emulsifierMinimum": "/v1/emulsifier/minimum", "createWorksheet": "/v1/worksheets", "candidatePairs": "/v1/candidate-pairs",

@@ -1,12 +1,12 @@
 """The committed OpenAPI document and the running app cannot drift apart."""
 import json
 
-from service.spec import SPEC_PATH, build_spec, spec_json
+from service.http.spec import SPEC_PATH, build_spec, spec_json
 
 
 def test_committed_spec_is_what_the_code_builds():
     committed = SPEC_PATH.read_text(encoding="utf-8")
-    assert committed == spec_json(build_spec()), "openapi/openapi.json is stale: run `python -m service.spec --write`"
+    assert committed == spec_json(build_spec()), "openapi/openapi.json is stale: run `python -m service.http.spec --write`"
 
 
 def test_served_spec_is_the_committed_one(client):

@@ -121,7 +121,7 @@ def test_non_strict_answers_say_so(client, registry):
 
 
 def test_strict_flag_from_environment():
-    from service.config import Settings
+    from service.http.config import Settings
 
     assert Settings.from_env({"EMULSION_STRICT": "true"}).strict is True
     assert Settings.from_env({}).strict is False

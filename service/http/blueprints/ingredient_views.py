@@ -3,11 +3,11 @@ from __future__ import annotations
 
 from flask import Blueprint, current_app
 
-from service.api.io import answer, load_query
-from service.errors import ApiProblem
+from service.http.bodies import answer, load_query
+from service.http.problems import ApiProblem
 from service.resolve import unknown_ingredient
 from service import registry_views
-from service.schemas import ingredients as schemas
+from service.http.schemas import ingredient_bodies as schemas
 
 bp = Blueprint("ingredients", __name__, url_prefix="/v1")
 

@@ -4,8 +4,8 @@ from __future__ import annotations
 from flask import Blueprint, Response, current_app, json, render_template_string
 
 from service.answers import registry_version
-from service.api.io import answer
-from service.schemas.meta import HealthSchema
+from service.http.bodies import answer
+from service.http.schemas.meta import HealthSchema
 
 bp = Blueprint("meta", __name__)
 HEALTH_OUT = HealthSchema()

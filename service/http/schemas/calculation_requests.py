@@ -3,7 +3,7 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields, validate
 
-from service.schemas.common import (
+from service.http.schemas.common import (
     EMULSION_TYPES,
     AbsoluteAmountSchema,
     AmountSchema,
@@ -12,7 +12,7 @@ from service.schemas.common import (
     IngredientRefSchema,
     MassSchema,
 )
-from service.schemas.fields import Boolean, Number, one_of
+from service.http.schemas.fields import Boolean, Number, one_of
 
 MAX_COMPONENTS = 30
 

@@ -6,11 +6,11 @@ from __future__ import annotations
 from flask import Blueprint, Response, request
 
 from service import pairs, worksheet
-from service.api.calculations import _registry, _strict
-from service.api.io import answer, load_body
-from service.errors import ApiProblem
-from service.render import worksheet_text
-from service.schemas import worksheets as schemas
+from service.http.blueprints.calculation_views import _registry, _strict
+from service.http.bodies import answer, load_body
+from service.http.problems import ApiProblem
+from service.http.worksheet_text import worksheet_text
+from service.http.schemas import worksheet_bodies as schemas
 
 bp = Blueprint("worksheets", __name__, url_prefix="/v1")
 

@@ -4,10 +4,10 @@ from __future__ import annotations
 
 from marshmallow import Schema, ValidationError, fields, validate, validates_schema
 
-from service.schemas.answers import AmountOutSchema, RangeSchema, answer
-from service.schemas.calculations import OilComponentSchema
-from service.schemas.common import EMULSION_TYPES, IONIC_CLASSES, AmountSchema, DensitySchema, IngredientRefSchema, MassSchema
-from service.schemas.fields import Boolean, Integer, Number, one_of
+from service.http.schemas.responses import AmountOutSchema, RangeSchema, answer
+from service.http.schemas.calculation_requests import OilComponentSchema
+from service.http.schemas.common import EMULSION_TYPES, IONIC_CLASSES, AmountSchema, DensitySchema, IngredientRefSchema, MassSchema
+from service.http.schemas.fields import Boolean, Integer, Number, one_of
 from service.units import ABSOLUTE_UNITS, MASS_UNITS, VOLUME_UNITS
 
 PHASES = ("oil", "aqueous", "other")

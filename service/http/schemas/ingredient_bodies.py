@@ -5,8 +5,8 @@ from __future__ import annotations
 from marshmallow import Schema, ValidationError, fields, validate, validates_schema
 
 from registry.model import FUNCTIONS
-from service.schemas.answers import CitationSchema, RegistryVersionSchema
-from service.schemas.fields import QueryNumber, one_of
+from service.http.schemas.responses import CitationSchema, RegistryVersionSchema
+from service.http.schemas.fields import QueryNumber, one_of
 
 ROLES = ("surfactant", "oil_phase", "aqueous_phase", "hydrocolloid")
 IONIC_CLASSES = ("nonionic", "anionic", "cationic", "amphoteric", "not_applicable")

@@ -2,7 +2,7 @@
 
 The app builds it once at start and serves it at /openapi.json; the committed
 copy in openapi/openapi.json is rewritten with `emulsion-spec --write` (or
-`python -m service.spec --write`), and a test fails when the two differ."""
+`python -m service.http.spec --write`), and a test fails when the two differ."""
 from __future__ import annotations
 
 import argparse
@@ -13,11 +13,12 @@ from pathlib import Path
 from apispec import APISpec
 from apispec.ext.marshmallow import MarshmallowPlugin
 
-from service.examples import EXAMPLES
-from service.schemas import answers, calculations, estimates, ingredients, meta, worksheets
-from service.schemas.fields import Boolean, Number, QueryNumber
+from service.http.spec_examples import EXAMPLES
+from service.http.schemas import calculation_requests as calculations, estimate_bodies as estimates, ingredient_bodies as ingredients, meta
+from service.http.schemas import responses as answers, worksheet_bodies as worksheets
+from service.http.schemas.fields import Boolean, Number, QueryNumber
 
-SPEC_PATH = Path(__file__).resolve().parent.parent / "openapi" / "openapi.json"
+SPEC_PATH = Path(__file__).resolve().parents[2] / "openapi" / "openapi.json"
 VERSION = "0.1.0"
 
 DESCRIPTION = (

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from marshmallow import Schema, ValidationError, fields, validates_schema
 
-from service.schemas.fields import Boolean, Number, ingredient_id, one_of, text
+from service.http.schemas.fields import Boolean, Number, ingredient_id, one_of, text
 from service.units import ABSOLUTE_UNITS, AMOUNT_UNITS, DENSITY_UNITS, MASS_UNITS
 
 EMULSION_TYPES = ("O/W", "W/O")

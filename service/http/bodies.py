@@ -6,8 +6,8 @@ import re
 from flask import Response, current_app, json, request
 from marshmallow import Schema, ValidationError
 
-from service.errors import TYPE_MALFORMED, ApiProblem, validation_problem
-from service.jsonio import StrictJSONError, strict_loads
+from service.http.problems import TYPE_MALFORMED, ApiProblem, validation_problem
+from service.http.jsonio import StrictJSONError, strict_loads
 
 _JSON_TYPE = re.compile(r"^application/([a-z0-9.+-]+\+)?json$")
 

@@ -4,9 +4,9 @@ from __future__ import annotations
 from flask import Blueprint, current_app
 
 from service import calculations
-from service.api.io import answer, load_body
-from service.schemas import answers as out
-from service.schemas import calculations as req
+from service.http.bodies import answer, load_body
+from service.http.schemas import responses as out
+from service.http.schemas import calculation_requests as req
 
 bp = Blueprint("calculations", __name__, url_prefix="/v1")
 

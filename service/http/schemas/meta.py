@@ -3,7 +3,7 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields
 
-from service.schemas.answers import RegistryVersionSchema
+from service.http.schemas.responses import RegistryVersionSchema
 
 
 class HealthSchema(Schema):

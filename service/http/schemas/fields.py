@@ -11,7 +11,7 @@ import re
 
 from marshmallow import ValidationError, fields, validate
 
-from service.jsonio import NonFiniteNumber
+from service.http.jsonio import NonFiniteNumber
 
 # The largest amount or number a request may carry: far beyond any batch, and
 # small enough that sums and products stay finite.

@@ -6,9 +6,9 @@ from flask import Blueprint
 
 from service import estimates, series
 from service.answers import registry_version
-from service.api.calculations import _registry, _strict
-from service.api.io import answer, load_body
-from service.schemas import estimates as schemas
+from service.http.blueprints.calculation_views import _registry, _strict
+from service.http.bodies import answer, load_body
+from service.http.schemas import estimate_bodies as schemas
 
 bp = Blueprint("estimates", __name__, url_prefix="/v1")
 

@@ -4,11 +4,11 @@ from __future__ import annotations
 
 from marshmallow import Schema, ValidationError, fields, validate, validates_schema
 
-from service.schemas.answers import RangeSchema, RegistryVersionSchema, answer
-from service.schemas.calculations import OilComponentSchema
-from service.schemas.common import EMULSION_TYPES, IngredientRefSchema, MassSchema
-from service.schemas.fields import ID_PATTERN, Boolean, FullMatch, Number, one_of, text
-from service.schemas.worksheets import CheckSchema, EquipmentOutSchema, EquipmentSchema, MeasureSchema
+from service.http.schemas.responses import RangeSchema, RegistryVersionSchema, answer
+from service.http.schemas.calculation_requests import OilComponentSchema
+from service.http.schemas.common import EMULSION_TYPES, IngredientRefSchema, MassSchema
+from service.http.schemas.fields import ID_PATTERN, Boolean, FullMatch, Number, one_of, text
+from service.http.schemas.worksheet_bodies import CheckSchema, EquipmentOutSchema, EquipmentSchema, MeasureSchema
 
 METHODS = ("griffin_mass_fraction", "griffin_saponification", "griffin_oxyethylene", "davies")
 FORMULA_PATTERN = r"^[A-Z(][A-Za-z0-9()]{0,199}$"
