@@ -1,7 +1,7 @@
 """The four calculations over JSON: good input, and the answer's envelope."""
 import pytest
 
-from service.methods import CAUTIONS
+from service.usecases.methods import CAUTIONS
 from tests.api.helpers import comp, inline, problem_pointers, unverified_surfactants
 
 BLEND = "/v1/blends/hlb"

@@ -3,7 +3,7 @@ from __future__ import annotations
 
 from flask import Blueprint, current_app
 
-from service import calculations
+from service.usecases import hlb_calculations
 from service.http.bodies import answer, load_body
 from service.http.schemas import responses as out
 from service.http.schemas import calculation_requests as req
@@ -30,21 +30,21 @@ def _strict(data: dict) -> bool:
 @bp.post("/blends/hlb")
 def blend_hlb():
     data = load_body(BLEND_IN)
-    return answer(BLEND_OUT, calculations.blend(data, _registry(), _strict(data)))
+    return answer(BLEND_OUT, hlb_calculations.blend(data, _registry(), _strict(data)))
 
 
 @bp.post("/blends/proportions")
 def blend_proportions():
     data = load_body(SPLIT_IN)
-    return answer(SPLIT_OUT, calculations.split(data, _registry(), _strict(data)))
+    return answer(SPLIT_OUT, hlb_calculations.split(data, _registry(), _strict(data)))
 
 
 @bp.post("/oil-phases/required-hlb")
 def oil_phase_required_hlb():
     data = load_body(RHLB_IN)
-    return answer(RHLB_OUT, calculations.oil_phase_rhlb(data, _registry(), _strict(data)))
+    return answer(RHLB_OUT, hlb_calculations.oil_phase_rhlb(data, _registry(), _strict(data)))
 
 
 @bp.post("/emulsifier/minimum")
 def emulsifier_minimum():
-    return answer(MINEM_OUT, calculations.emulsifier_minimum(load_body(MINEM_IN), _registry()))
+    return answer(MINEM_OUT, hlb_calculations.emulsifier_minimum(load_body(MINEM_IN), _registry()))

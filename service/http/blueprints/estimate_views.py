@@ -4,8 +4,8 @@ from __future__ import annotations
 
 from flask import Blueprint
 
-from service import estimates, series
-from service.answers import registry_version
+from service.usecases import hlb_estimates, hlb_series
+from service.usecases.answers import registry_version
 from service.http.blueprints.calculation_views import _registry, _strict
 from service.http.bodies import answer, load_body
 from service.http.schemas import estimate_bodies as schemas
@@ -21,19 +21,19 @@ GROUPS_OUT = schemas.DaviesGroupListSchema()
 @bp.post("/hlb-estimates")
 def hlb_estimate():
     data = load_body(EST_IN)
-    return answer(EST_OUT, estimates.estimate(data, _registry(), _strict(data)))
+    return answer(EST_OUT, hlb_estimates.estimate(data, _registry(), _strict(data)))
 
 
 @bp.post("/required-hlb-series/plan")
 def series_plan():
     data = load_body(PLAN_IN)
-    return answer(PLAN_OUT, series.plan(data, _registry(), _strict(data)))
+    return answer(PLAN_OUT, hlb_series.plan(data, _registry(), _strict(data)))
 
 
 @bp.post("/required-hlb-series/evaluate")
 def series_evaluate():
     data = load_body(EVAL_IN)
-    return answer(EVAL_OUT, series.evaluate(data, _registry(), _strict(data)))
+    return answer(EVAL_OUT, hlb_series.evaluate(data, _registry(), _strict(data)))
 
 
 @bp.get("/davies-groups")

@@ -5,8 +5,8 @@ from flask import Blueprint, current_app
 
 from service.http.bodies import answer, load_query
 from service.http.problems import ApiProblem
-from service.resolve import unknown_ingredient
-from service import registry_views
+from service.usecases.resolution import unknown_ingredient
+from service.usecases import registry_views
 from service.http.schemas import ingredient_bodies as schemas
 
 bp = Blueprint("ingredients", __name__, url_prefix="/v1")

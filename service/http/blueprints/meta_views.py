@@ -3,7 +3,7 @@ from __future__ import annotations
 
 from flask import Blueprint, Response, current_app, json, render_template_string
 
-from service.answers import registry_version
+from service.usecases.answers import registry_version
 from service.http.bodies import answer
 from service.http.schemas.meta import HealthSchema
 

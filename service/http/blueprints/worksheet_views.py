@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from flask import Blueprint, Response, request
 
-from service import pairs, worksheet
+from service.usecases import pairs, worksheet
 from service.http.blueprints.calculation_views import _registry, _strict
 from service.http.bodies import answer, load_body
 from service.http.problems import ApiProblem

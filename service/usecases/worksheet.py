@@ -6,20 +6,17 @@ import copy
 from dataclasses import dataclass, field
 
 from registry import Registry
-from service import methods
-from service.answers import envelope, hlb_display, hlb_span_display, unrounded
+from service.usecases import methods
+from service.usecases.answers import envelope, hlb_display, hlb_span_display, unrounded, apparent_hlb_warning, finding_warnings
 from service.core import findings as core_findings
 from service.core.amounts import Amount
 from service.core.batch import mixture_mass_for_volume, qs_percent, rows_for_batch
 from service.core.errors import CalculationError
 from service.core.measure import capacity_check
 from service.core.required_hlb import required_hlb
-from service.equipment import equipment_from, equipment_out
-from service.lookups import enforce_strict, hlb_ranges, required_value
-from service.notices import apparent_hlb_warning, finding_warnings
-from service.emulsifier_system import DISPERSED, emulsifier_rows
-from service.resolve import RHLB_PROPERTY, check_references, density_value, invalid, resolve
-from service.rows import Row, measure_row, row_density
+from service.usecases.measuring import equipment_from, equipment_out, Row, measure_row, row_density
+from service.usecases.resolution import enforce_strict, hlb_ranges, required_value, RHLB_PROPERTY, check_references, density_value, invalid, resolve
+from service.usecases.emulsifier_system import DISPERSED, emulsifier_rows
 from service.units import from_canonical, to_canonical
 
 # A blend of fixed surfactants within this of the required HLB is taken to

@@ -4,7 +4,7 @@ from __future__ import annotations
 from registry import Ingredient, Registry, ValueRecord
 from registry.lookup import search
 from registry.model import PROPERTIES, UNITS
-from service.answers import registry_version
+from service.usecases.answers import registry_version
 
 
 def _figure(ing: Ingredient, prop: str) -> float | None:

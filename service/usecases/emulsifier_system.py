@@ -10,12 +10,10 @@ from service.core.errors import CalculationError
 from service.core.findings import ceil_to, off_scale_findings
 from service.core.mixing import Term, weighted_mean
 from service.core.split import split_for_target
-from service.answers import hlb_display
-from service.lookups import DEFAULT_ESTIMATE_MARGIN_PERCENT, required_value, usual_emulsifier_high_percent
-from service.notices import UNPUBLISHED_METHOD, finding_warnings
-from service.pairs import DEFAULT_IONIC, oil_chain, ranked
-from service.resolve import checked_density, invalid, resolve
-from service.rows import Row, row_density
+from service.usecases.answers import hlb_display, UNPUBLISHED_METHOD, finding_warnings
+from service.usecases.resolution import DEFAULT_ESTIMATE_MARGIN_PERCENT, required_value, usual_emulsifier_high_percent, checked_density, invalid, resolve
+from service.usecases.pairs import DEFAULT_IONIC, oil_chain, ranked
+from service.usecases.measuring import Row, row_density
 
 CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}
 DISPERSED = {"O/W": "oil", "W/O": "aqueous"}

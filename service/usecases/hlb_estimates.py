@@ -7,8 +7,8 @@ import copy
 from molmass import Formula, FormulaError
 
 from registry import Registry
-from service import methods
-from service.answers import envelope, hlb_display, unrounded
+from service.usecases import methods
+from service.usecases.answers import envelope, hlb_display, unrounded
 from service.core.estimates import (
     Scope,
     check_griffin_scope,
@@ -18,8 +18,7 @@ from service.core.estimates import (
     griffin_saponification,
 )
 from service.core.errors import pointer
-from service.lookups import enforce_strict
-from service.resolve import figures_differ, invalid
+from service.usecases.resolution import enforce_strict, figures_differ, invalid
 
 MAX_MOLAR_MASS = 1e6
 

@@ -3,14 +3,12 @@ phase."""
 from __future__ import annotations
 
 from registry import Registry
-from service import methods
-from service.answers import envelope, hlb_display
-from service.calculations import oil_phase_rhlb
+from service.usecases import methods
+from service.usecases.answers import envelope, hlb_display, finding_warnings
+from service.usecases.hlb_calculations import oil_phase_rhlb
 from service.core.candidates import RULE, SINGLE_TOLERANCE_HLB, Pair, Surfactant, candidate_pairs, single_surfactants
 from service.core.findings import GRIFFIN_SCALE_MAX, off_scale_findings
-from service.lookups import enforce_strict
-from service.notices import finding_warnings
-from service.resolve import Resolved, check_references, scalar_value
+from service.usecases.resolution import enforce_strict, Resolved, check_references, scalar_value
 
 DEFAULT_IONIC = ("nonionic",)
 DEFAULT_LIMIT = 10

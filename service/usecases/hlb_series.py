@@ -4,19 +4,16 @@ from __future__ import annotations
 import copy
 
 from registry import Registry
-from service import methods
-from service.answers import envelope, hlb_display, unrounded
+from service.usecases import methods
+from service.usecases.answers import envelope, hlb_display, unrounded, finding_warnings
 from service.core.amounts import Amount, weigh
 from service.core.batch import rows_for_batch
 from service.core.errors import CalculationError
 from service.core.findings import phase_volume_findings
 from service.core.series import estimate_from_pass_fail, estimate_from_scores, finer_series, plan_points
-from service.equipment import equipment_from, equipment_out
-from service.lookups import enforce_strict, required_value
-from service.notices import finding_warnings
-from service.resolve import check_references, resolve
+from service.usecases.measuring import equipment_from, equipment_out, Row, measure_row, row_density
+from service.usecases.resolution import enforce_strict, required_value, check_references, resolve
 from service.units import to_canonical
-from service.rows import Row, measure_row, row_density
 
 DEFAULT_PROPORTION_STEP_PERCENT = 10.0
 CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}

@@ -6,26 +6,31 @@ from __future__ import annotations
 from typing import Sequence
 
 from registry import Registry
-from service import methods
-from service.answers import envelope, hlb_display, hlb_span_display, unrounded
+from service.usecases import methods
+from service.usecases.answers import envelope, hlb_display, hlb_span_display, unrounded, UNPUBLISHED_METHOD, apparent_hlb_warning, finding_warnings, solid_by_volume_warning
 from service.core import findings as core_findings
 from service.core.blend import blend_hlb
 from service.core.emulsifier import OIL_LOAD_NOTE, estimate_limits, minimum_emulsifier, plausibility_finding
 from service.core.required_hlb import required_hlb
 from service.core.split import split_for_target, total_mass_from_volume
-from service.notices import UNPUBLISHED_METHOD, apparent_hlb_warning, finding_warnings, solid_by_volume_warning
-from service.lookups import (
+from service.usecases.resolution import (
     BATCH_INCREMENT_G,
     DEFAULT_ERROR_PERCENT,
     DEFAULT_SENSITIVITY_G,
+    RHLB_PROPERTY,
+    Resolved,
+    amount,
     amount_densities,
+    check_references,
+    checked_density,
     densities_for,
     enforce_strict,
     hlb_ranges,
+    invalid,
     required_value,
+    resolve,
     usual_emulsifier_high_percent,
 )
-from service.resolve import RHLB_PROPERTY, Resolved, amount, check_references, checked_density, invalid, resolve
 from service.units import to_canonical
 
 def _component_inputs(items, given, weighed, fractions) -> list[dict]:
