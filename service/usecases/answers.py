@@ -6,12 +6,13 @@ each value they concern."""
 from __future__ import annotations
 
 import math
-from typing import Iterable, Sequence
+from typing import Iterable
 
 from registry import Registry
 from service.core.errors import CalculationError
 from service.core.findings import Finding
 from service.usecases.methods import CAUTIONS, Method
+from service.usecases.provenance import ValueUsed
 
 
 def registry_version(registry: Registry) -> dict:
@@ -45,7 +46,7 @@ def _first_non_finite(value, path=()):
     return None
 
 
-def envelope(result: dict, inputs: dict, method: Method, values_used: list[dict], warnings: list[dict], registry: Registry,
+def envelope(result: dict, inputs: dict, method: Method, values_used: Iterable[ValueUsed], warnings: list[dict], registry: Registry,
              strict: bool = False, extra_cautions: tuple[str, ...] = ()) -> dict:
     """The whole answer. A result that overflowed (extreme but valid inputs)
     is refused rather than written out as a wrong number."""
@@ -56,7 +57,7 @@ def envelope(result: dict, inputs: dict, method: Method, values_used: list[dict]
         "result": tidy(result),
         "inputs": tidy(inputs),
         "method": method_block(method, registry),
-        "values_used": tidy(values_used),
+        "values_used": tidy([v.as_dict() for v in values_used]),
         "warnings": warnings + provenance_warnings(values_used),
         "cautions": list(CAUTIONS) + list(extra_cautions),
         "strict": strict,
@@ -95,31 +96,26 @@ UNPUBLISHED_METHOD = ("the minimum emulsifier estimate comes from calculation pr
                       "found; treat it as a rough lower bound and confirm the emulsifier level by bench trial")
 
 PROVENANCE_RULES = (
-    ("unverified_value", lambda v: v["status"] == "unverified",
+    ("unverified_value", lambda v: v.status == "unverified",
      "value(s) not yet checked against their cited source were used"),
-    ("value_from_memory", lambda v: v["recalled_from_memory"],
+    ("value_from_memory", lambda v: v.recalled_from_memory,
      "value(s) recalled from memory of a standard text, not read from it, were used"),
-    ("caller_supplied_value", lambda v: v["origin"] == "caller",
+    ("caller_supplied_value", lambda v: v.origin == "caller",
      "value(s) supplied in the request, with no source in the registry, were used"),
-    ("local_value", lambda v: v["local"],
+    ("local_value", lambda v: v.local,
      "value(s) from this pharmacy's site overlay, not from the shipped registry, were used"),
-    ("sources_disagree", lambda v: v["sources_disagree"],
+    ("sources_disagree", lambda v: v.sources_disagree,
      "sources disagree on value(s) used; the preferred figure was used and the range is given"),
-    ("doubtful_value_left_out", lambda v: v["range_with_doubtful"] is not None,
+    ("doubtful_value_left_out", lambda v: v.range_with_doubtful is not None,
      "value(s) have a further figure the registry flags doubtful, left out of the range given (range_with_doubtful shows "
      "the span with it)"),
 )
 
 
-def _label(v: dict) -> str:
-    who = v["ingredient"] or f"inline '{v['name']}'"
-    return f"{who} {v['property']}"
-
-
-def provenance_warnings(values_used: Sequence[dict]) -> list[dict]:
+def provenance_warnings(values_used: Iterable[ValueUsed]) -> list[dict]:
     out = []
     for code, applies, message in PROVENANCE_RULES:
-        hits = [_label(v) for v in values_used if applies(v)]
+        hits = [v.label for v in values_used if applies(v)]
         if hits:
             out.append({"code": code, "message": f"{len(hits)} {message}: {', '.join(hits)}", "subject": ", ".join(hits)})
     return out

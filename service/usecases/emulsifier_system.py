@@ -11,6 +11,7 @@ from service.core.findings import ceil_to, off_scale_findings
 from service.core.mixing import Term, weighted_mean
 from service.core.split import split_for_target
 from service.usecases.answers import hlb_display, UNPUBLISHED_METHOD, finding_warnings
+from service.usecases.provenance import ValuesUsed
 from service.usecases.resolution import DEFAULT_ESTIMATE_MARGIN_PERCENT, required_value, usual_emulsifier_high_percent, checked_density, invalid, resolve
 from service.usecases.pairs import DEFAULT_IONIC, oil_chain, ranked
 from service.usecases.measuring import Row, row_density
@@ -19,7 +20,7 @@ CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}
 DISPERSED = {"O/W": "oil", "W/O": "aqueous"}
 
 
-def _phase_density(rows: list[Row], registry: Registry, values_used: list, path: tuple) -> float:
+def _phase_density(rows: list[Row], registry: Registry, values_used: ValuesUsed, path: tuple) -> float:
     """Density of a phase from its rows' densities, volumes assumed additive."""
     total = sum(r.percent for r in rows)
     densities = [row_density(r, registry, values_used) for r in rows]
@@ -27,7 +28,7 @@ def _phase_density(rows: list[Row], registry: Registry, values_used: list, path:
 
 
 
-def emulsifier_rows(data: dict, rows: list[Row], rhlb, registry: Registry, strict: bool, values_used: list, warnings: list) -> tuple[list[Row], dict]:
+def emulsifier_rows(data: dict, rows: list[Row], rhlb, registry: Registry, strict: bool, values_used: ValuesUsed, warnings: list) -> tuple[list[Row], dict]:
     spec = data["emulsifier"]
     # Solved on the required HLB as printed (to 0.1), so that a hand check
     # from the printed figures gives the printed masses.

@@ -13,6 +13,7 @@ from service.core.blend import blend_hlb
 from service.core.emulsifier import OIL_LOAD_NOTE, estimate_limits, minimum_emulsifier, plausibility_finding
 from service.core.required_hlb import required_hlb
 from service.core.split import split_for_target, total_mass_from_volume
+from service.usecases.provenance import ValuesUsed
 from service.usecases.resolution import (
     BATCH_INCREMENT_G,
     DEFAULT_ERROR_PERCENT,
@@ -51,7 +52,7 @@ def blend(data: dict, registry: Registry, strict: bool = False) -> dict:
     check_references(data, registry)
     components = data["components"]
     items = [resolve(c, ("components", i), registry) for i, c in enumerate(components)]
-    values_used: list[dict] = []
+    values_used = ValuesUsed()
     hlbs = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
     amounts = [amount(c["amount"]) for c in components]
     densities = amount_densities(items, amounts, registry, values_used, strict)
@@ -92,7 +93,7 @@ def _fixed_fractions(fixed: list[dict], total: dict | None) -> list[float]:
 
 def split(data: dict, registry: Registry, strict: bool = False) -> dict:
     check_references(data, registry)
-    values_used: list[dict] = []
+    values_used = ValuesUsed()
     pair = [resolve(r, ("pair", i), registry) for i, r in enumerate(data["pair"])]
     fixed = data.get("fixed", [])
     fixed_items = [resolve(f, ("fixed", i), registry) for i, f in enumerate(fixed)]
@@ -149,7 +150,7 @@ def oil_phase_rhlb(data: dict, registry: Registry, strict: bool = False) -> dict
     oil = data["oil_phase"]
     items = [resolve(c, ("oil_phase", i), registry) for i, c in enumerate(oil)]
     counts = [c.get("counts_toward_rhlb", True) for c in oil]
-    values_used: list[dict] = []
+    values_used = ValuesUsed()
     rhlbs = [
         required_value(it, prop, "required_hlb", registry, values_used, f"{emulsion_type} required HLB") if count else None
         for it, count in zip(items, counts)

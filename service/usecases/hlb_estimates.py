@@ -17,8 +17,8 @@ from service.core.estimates import (
     griffin_oxyethylene,
     griffin_saponification,
 )
-from service.core.errors import pointer
-from service.usecases.resolution import enforce_strict, figures_differ, invalid
+from service.usecases.provenance import ValueUsed, ValuesUsed, figures_differ
+from service.usecases.resolution import enforce_strict, invalid
 
 MAX_MOLAR_MASS = 1e6
 
@@ -46,22 +46,18 @@ def _molar(part: dict, path: tuple) -> tuple[float, set[str]]:
     return mass, elements
 
 
-def _group_values(data: dict, registry: Registry) -> tuple[list[dict], list[dict], list[tuple[float, float]]]:
-    contributions, values_used, terms = [], [], []
+def _group_values(data: dict, registry: Registry) -> tuple[list[dict], ValuesUsed, list[tuple[float, float]]]:
+    contributions, values_used, terms = [], ValuesUsed(), []
     for i, g in enumerate(data["groups"]):
         group = registry.davies_groups.get(g["group"])
         if group is None:
             raise invalid(("groups", i, "group"), "known_group", f"no Davies group '{g['group']}'; GET /v1/davies-groups lists them")
         record = next((r for r in group.values if r.preferred and not r.retired), group.values[0])
-        source = registry.sources[record.source_id]
-        values_used.append({
-            "ingredient": None, "name": f"Davies group {group.id} ({group.formula})", "property": "davies_group_number",
-            "pointer": pointer(("groups", i)), "figure": record.figure, "low": min(r.low for r in group.values if not r.retired),
-            "high": max(r.high for r in group.values if not r.retired), "unit": None, "origin": "registry",
-            "source": {"id": source.id, "citation": source.citation, "kind": source.kind}, "locator": record.locator,
-            "kind": record.kind, "status": record.status, "local": False, "recalled_from_memory": record.recalled_from_memory,
-            "sources_disagree": figures_differ([r for r in group.values if not r.retired]), "note": record.note, "range_with_doubtful": None,
-        })
+        current = [r for r in group.values if not r.retired]
+        values_used.add(ValueUsed.from_registry(
+            ingredient=None, name=f"Davies group {group.id} ({group.formula})", property="davies_group_number", path=("groups", i),
+            record=record, registry=registry, low=min(r.low for r in current), high=max(r.high for r in current), unit=None,
+            local=False, sources_disagree=figures_differ(current)))
         contributions.append({"group": group.id, "formula": group.formula, "number": record.figure, "count": g["count"],
                               "contribution": record.figure * g["count"]})
         terms.append((record.figure, g["count"]))
@@ -70,7 +66,7 @@ def _group_values(data: dict, registry: Registry) -> tuple[list[dict], list[dict
 
 def estimate(data: dict, registry: Registry, strict: bool = False) -> dict:
     method = data["method"]
-    warnings, values_used = [], []
+    warnings, values_used = [], ValuesUsed()
     contributions = molar = None
     weaknesses = [methods.IDEALISED] if method.startswith("griffin") else []
     if method.startswith("griffin"):

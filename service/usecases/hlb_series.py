@@ -12,6 +12,7 @@ from service.core.errors import CalculationError
 from service.core.findings import phase_volume_findings
 from service.core.series import estimate_from_pass_fail, estimate_from_scores, finer_series, plan_points
 from service.usecases.measuring import equipment_from, equipment_out, Row, measure_row, row_density
+from service.usecases.provenance import ValuesUsed
 from service.usecases.resolution import enforce_strict, required_value, check_references, resolve
 from service.units import to_canonical
 
@@ -21,7 +22,7 @@ CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}
 
 def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
     check_references(data, registry)
-    values_used: list[dict] = []
+    values_used = ValuesUsed()
     pair = [resolve(p, ("pair", i), registry) for i, p in enumerate(data["pair"])]
     hlbs = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in pair]
     if hlbs[0].figure > hlbs[1].figure:
@@ -78,7 +79,7 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
 def evaluate(data: dict, registry: Registry, strict: bool = False) -> dict:
     check_references(data, registry)
     tests = data["tests"]
-    values_used: list[dict] = []
+    values_used = ValuesUsed()
     pair_hlbs = None
     if "pair" in data:
         pair = [resolve(p, ("pair", i), registry) for i, p in enumerate(data["pair"])]

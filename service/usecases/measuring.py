@@ -13,6 +13,7 @@ from service.core.batch import BatchRow
 from service.core.measure import Balance, Check, Graduate, choose_graduate, rounding_check, round_to, weighing_checks
 from service.usecases.resolution import DEFAULT_ERROR_PERCENT, DEFAULT_SENSITIVITY_G, Resolved, density_value, invalid
 from service.units import to_canonical
+from service.usecases.provenance import ValuesUsed
 
 
 @dataclass
@@ -24,14 +25,13 @@ class Row:
     path: tuple = ()
 
 
-def row_density(row: Row, registry: Registry, values_used: list, strict: bool = False) -> float | None:
+def row_density(row: Row, registry: Registry, values_used: ValuesUsed, strict: bool = False) -> float | None:
     """The row's density, recorded in values_used. In strict mode an
     unverified one is not used for reporting volumes (the row is weighed)."""
     found = density_value(row.item, registry)
-    if found is None or (strict and found[1]["origin"] == "registry" and found[1]["status"] == "unverified"):
+    if found is None or (strict and found[1].unverified_registry_value):
         return None
-    if not any(v["pointer"] == found[1]["pointer"] and v["property"] == "density" for v in values_used):
-        values_used.append(found[1])
+    values_used.add(found[1], key=lambda v: (v.pointer, v.property))
     return found[0]
 
 

@@ -8,6 +8,7 @@ from service.usecases.answers import envelope, hlb_display, finding_warnings
 from service.usecases.hlb_calculations import oil_phase_rhlb
 from service.core.candidates import RULE, SINGLE_TOLERANCE_HLB, Pair, Surfactant, candidate_pairs, single_surfactants
 from service.core.findings import GRIFFIN_SCALE_MAX, off_scale_findings
+from service.usecases.provenance import ValueUsed, ValuesUsed
 from service.usecases.resolution import enforce_strict, Resolved, check_references, scalar_value
 
 DEFAULT_IONIC = ("nonionic",)
@@ -63,12 +64,12 @@ def candidates(data: dict, registry: Registry, strict: bool = False) -> dict:
     ionic = tuple(data.get("ionic_classes", DEFAULT_IONIC))
     limit = data.get("limit", DEFAULT_LIMIT)
     off_scale = data.get("include_off_scale_hlb", False)
-    values_used, warnings = [], []
+    values_used, warnings = ValuesUsed(), []
     chain = None
     if "oil_phase" in data:
         rhlb = oil_phase_rhlb({"emulsion_type": data["emulsion_type"], "oil_phase": data["oil_phase"]}, registry, strict)
         target = rhlb["result"]["required_hlb_unrounded"]
-        values_used += rhlb["values_used"]
+        values_used.extend(ValueUsed.from_dict(v) for v in rhlb["values_used"])
         chain = oil_chain(registry, [(row["ingredient"], row["percent_w_w"]) for row in rhlb["inputs"]["oil_phase"]])
     else:
         target = data["target_hlb"]
@@ -80,8 +81,8 @@ def candidates(data: dict, registry: Registry, strict: bool = False) -> dict:
     for s in [m for pair in chosen for m in (pair.low, pair.high)] + singles:
         item = Resolved(s.id, registry.get(s.id).name, s.ionic_class, None, False, registry.get(s.id), path=("candidates",))
         found = scalar_value(item, "hlb", "hlb", registry)
-        if found and not any(v["ingredient"] == s.id and v["property"] == "hlb" for v in values_used):
-            values_used.append(found[1])
+        if found:
+            values_used.add(found[1], key=lambda v: (v.ingredient, v.property))
     if off_scale:
         members = {s.id: s for p in chosen for s in (p.low, p.high)}
         warnings += finding_warnings(off_scale_findings([(m.id, m.hlb, m.ionic_class) for m in members.values()]))

@@ -16,6 +16,7 @@ from service.core.amounts import ABSOLUTE, Amount
 from service.core.blend import HlbValue
 from service.core.errors import InvalidInput, UnverifiedValuesRefused, pointer
 from service.units import to_canonical
+from service.usecases.provenance import ValueUsed, ValuesUsed, figures_differ
 
 # Physically plausible densities, g/mL: anything outside is a unit slip.
 DENSITY_RANGE_G_PER_ML = (0.05, 25.0)
@@ -117,38 +118,19 @@ def spans(ing: Ingredient, prop: str) -> tuple[tuple[float, float], tuple[float,
     return ing.span_without_doubtful(prop), (ing.span(prop) if ing.has_doubtful(prop) else None)
 
 
-def figures_differ(records) -> bool:
-    """Whether the values give different figures (or ranges): several sources
-    printing one figure corroborate it, and saying they disagree would send a
-    pharmacist looking for a conflict that is not there."""
-    return len({(r.low, r.high) for r in records}) > 1
-
-
-def _registry_value(item: Resolved, record: ValueRecord, registry: Registry, unit: str | None) -> dict:
+def _registry_value(item: Resolved, record: ValueRecord, registry: Registry, unit: str | None) -> ValueUsed:
     ing = item.record
     span, wide = spans(ing, record.property)
-    source = registry.sources[record.source_id]
-    return {
-        "ingredient": item.ingredient_id, "name": item.name, "property": record.property, "pointer": pointer(item.path),
-        "figure": record.figure, "low": span[0], "high": span[1], "unit": unit, "origin": "registry",
-        "source": {"id": source.id, "citation": source.citation, "kind": source.kind},
-        "locator": record.locator, "kind": record.kind, "status": record.status, "local": record.local,
-        "recalled_from_memory": record.recalled_from_memory,
-        "sources_disagree": figures_differ(ing.comparable(record.property)), "note": record.note,
-        "range_with_doubtful": {"low": wide[0], "high": wide[1]} if wide else None,
-    }
+    return ValueUsed.from_registry(ingredient=item.ingredient_id, name=item.name, path=item.path, record=record, registry=registry,
+                                   low=span[0], high=span[1], unit=unit, local=record.local,
+                                   sources_disagree=figures_differ(ing.comparable(record.property)), range_with_doubtful=wide)
 
 
-def _caller_value(item: Resolved, prop: str, figure: float, unit: str | None) -> dict:
-    return {
-        "ingredient": item.ingredient_id, "name": item.name, "property": prop, "pointer": pointer(item.path), "figure": figure,
-        "low": figure, "high": figure, "unit": unit, "origin": "caller", "source": None, "locator": None, "kind": None,
-        "status": "caller_supplied", "local": False, "recalled_from_memory": False, "sources_disagree": False,
-        "note": "Supplied in the request; its provenance is the caller's.", "range_with_doubtful": None,
-    }
+def _caller_value(item: Resolved, prop: str, figure: float, unit: str | None) -> ValueUsed:
+    return ValueUsed.from_caller(ingredient=item.ingredient_id, name=item.name, path=item.path, property=prop, figure=figure, unit=unit)
 
 
-def scalar_value(item: Resolved, prop: str, inline_key: str, registry: Registry) -> tuple[HlbValue, dict] | None:
+def scalar_value(item: Resolved, prop: str, inline_key: str, registry: Registry) -> tuple[HlbValue, ValueUsed] | None:
     """An HLB-like value (hlb, required_hlb_ow, required_hlb_wo) and its record
     for values_used; None when none is known."""
     if item.record is None:
@@ -163,7 +145,7 @@ def scalar_value(item: Resolved, prop: str, inline_key: str, registry: Registry)
     return HlbValue(record.figure, low, high, wide), _registry_value(item, record, registry, None)
 
 
-def density_value(item: Resolved, registry: Registry) -> tuple[float, dict] | None:
+def density_value(item: Resolved, registry: Registry) -> tuple[float, ValueUsed] | None:
     """Density in g/mL and its record: the request's override, then the
     inline value, then the registry's preferred value."""
     given = item.density_override or item.inline.get("density")
@@ -218,15 +200,15 @@ def usual_emulsifier_high_percent(registry: Registry) -> float:
     return max(level.alone[1] for level in levels.families)
 
 
-def enforce_strict(values_used: list[dict], strict: bool) -> None:
+def enforce_strict(values_used: ValuesUsed, strict: bool) -> None:
     """Strict mode: refuse registry values not yet checked against their
     source, naming each. Caller-supplied values are the caller's to vouch for."""
     if not strict:
         return
-    refused = [v for v in values_used if v["origin"] == "registry" and v["status"] == "unverified"]
+    refused = [v for v in values_used if v.unverified_registry_value]
     if refused:
-        errors = [{"pointer": v["pointer"], "rule": "verified_values_only",
-                   "detail": f"{v['ingredient']} {v['property']} ({v['figure']:g}, source {v['source']['id']}) is unverified"} for v in refused]
+        errors = [{"pointer": v.pointer, "rule": "verified_values_only",
+                   "detail": f"{v.ingredient} {v.property} ({v.figure:g}, source {v.source.id}) is unverified"} for v in refused]
         raise UnverifiedValuesRefused(errors, f"strict mode: {len(refused)} value(s) used here are not yet checked against their source")
 
 
@@ -234,7 +216,7 @@ def hlb_ranges(registry: Registry) -> dict[str, tuple[float, float]]:
     return {name: (r.low, r.high) for name, r in registry.hlb_ranges.ranges.items()}
 
 
-def densities_for(items: Sequence[Resolved], needed: Sequence[bool], registry: Registry, values_used: list,
+def densities_for(items: Sequence[Resolved], needed: Sequence[bool], registry: Registry, values_used: ValuesUsed,
                strict: bool) -> list[float | None]:
     """Each item's density where one is known. `needed[i]` says the result
     depends on it (a volume to convert); otherwise it only reports a volume,
@@ -242,11 +224,11 @@ def densities_for(items: Sequence[Resolved], needed: Sequence[bool], registry: R
     out = []
     for item, need in zip(items, needed):
         found = density_value(item, registry)
-        if found is None or (strict and not need and found[1]["status"] == "unverified"):
+        if found is None or (strict and not need and found[1].status == "unverified"):
             out.append(None)
             continue
         out.append(found[0])
-        values_used.append(found[1])
+        values_used.add(found[1])
     return out
 
 
@@ -257,10 +239,10 @@ def amount_densities(items, amounts: Sequence[Amount], registry, values_used, st
     return densities_for(items, [a.kind == "volume" for a in amounts], registry, values_used, strict)
 
 
-def required_value(item: Resolved, prop: str, inline_key: str, registry: Registry, values_used: list, what: str):
+def required_value(item: Resolved, prop: str, inline_key: str, registry: Registry, values_used: ValuesUsed, what: str):
     found = scalar_value(item, prop, inline_key, registry)
     if found is None:
         where = item.path + (("inline", inline_key) if item.record is None else ("ingredient",))
         raise invalid(where, f"{prop}_known", f"no {what} is known for {item.label}: describe the ingredient inline with a value from your own source, or choose another ingredient")
-    values_used.append(found[1])
+    values_used.add(found[1])
     return found[0]

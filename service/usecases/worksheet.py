@@ -15,6 +15,7 @@ from service.core.errors import CalculationError
 from service.core.measure import capacity_check
 from service.core.required_hlb import required_hlb
 from service.usecases.measuring import equipment_from, equipment_out, Row, measure_row, row_density
+from service.usecases.provenance import ValuesUsed
 from service.usecases.resolution import enforce_strict, hlb_ranges, required_value, RHLB_PROPERTY, check_references, density_value, invalid, resolve
 from service.usecases.emulsifier_system import DISPERSED, emulsifier_rows
 from service.units import from_canonical, to_canonical
@@ -31,12 +32,12 @@ class Computed:
     batch_volume_ml: float | None
     rhlb: object
     emulsifier: dict
-    values_used: list = field(default_factory=list)
+    values_used: ValuesUsed = field(default_factory=ValuesUsed)
     warnings: list = field(default_factory=list)
     checks: list = field(default_factory=list)
 
 
-def _formula_rows(data: dict, registry: Registry, batch_mass_g: float | None, values_used: list) -> list[Row]:
+def _formula_rows(data: dict, registry: Registry, batch_mass_g: float | None, values_used: ValuesUsed) -> list[Row]:
     """The formula's own rows with their % w/w (None for the q.s. vehicle)."""
     rows = []
     for i, x in enumerate(data["ingredients"]):
@@ -67,7 +68,7 @@ def _formula_rows(data: dict, registry: Registry, batch_mass_g: float | None, va
     return rows
 
 
-def _oil_phase(data: dict, rows: list[Row], registry: Registry, values_used: list):
+def _oil_phase(data: dict, rows: list[Row], registry: Registry, values_used: ValuesUsed):
     prop = RHLB_PROPERTY[data["emulsion_type"]]
     oil = [(r, data["ingredients"][r.path[1]]) for r in rows if r.phase == "oil"]
     if not oil:
@@ -106,7 +107,7 @@ def _oily_qs_share(data: dict, rows: list[Row]) -> None:
 
 
 def compute(data: dict, registry: Registry, strict: bool) -> Computed:
-    values_used: list[dict] = []
+    values_used = ValuesUsed()
     warnings: list[dict] = []
     b_kind, b_value = to_canonical(data["batch"]["value"], data["batch"]["unit"])
     batch_mass = b_value if b_kind == "mass" else None
