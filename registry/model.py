@@ -9,6 +9,9 @@ from typing import Mapping
 # Water at 25 degC (IAPWS-95), used to turn a specific gravity 25/25 into a
 # density. The same figure stands in purified-water.toml with its source.
 WATER_DENSITY_25C_G_PER_ML = 0.9970476
+# Physically plausible densities of pharmaceutical ingredients, g/mL: a
+# figure outside is a slip of unit, in a data file or in a request.
+PLAUSIBLE_DENSITY_G_PER_ML = (0.05, 25.0)
 
 PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo", "density", "molar_mass")
 UNITS = {"density": "g/mL", "molar_mass": "g/mol"}

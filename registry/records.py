@@ -15,6 +15,7 @@ from pathlib import Path
 from registry.errors import RegistryError
 from registry.model import (
     PROPERTIES,
+    PLAUSIBLE_DENSITY_G_PER_ML,
     WATER_DENSITY_25C_G_PER_ML,
     DaviesGroup,
     EmulsifierLevel,
@@ -79,7 +80,7 @@ def _value_record(prop: str, raw: dict, faults: Faults, field: str, local: bool)
                 faults.add(f"{field}/unit", str(exc))
                 return None
         low, high = low * factor, high * factor
-        if not 0.05 <= low <= high <= 25.0:
+        if not PLAUSIBLE_DENSITY_G_PER_ML[0] <= low <= high <= PLAUSIBLE_DENSITY_G_PER_ML[1]:
             faults.add(f"{field}/value", f"{low:g} to {high:g} g/mL is not a plausible density: check the unit")
             return None
     return ValueRecord(

@@ -32,6 +32,23 @@ class MinimumEmulsifier:
     g_per_100g_rounded_up: float
 
 
+# The continuous-phase term's coefficient: 4·Q/1000 g per 100 g for Q % of continuous phase.
+CONTINUOUS_TERM_G_PER_PERCENT = 4.0 / 1000.0
+
+
+def constant_part(surfactant_density_g_per_ml: float, dispersed_density_g_per_ml: float, required_hlb: float) -> float:
+    """6·(ρs/ρd) / (10 − 0.5·RHLB), g per 100 g: the estimate without its
+    continuous-phase term. Raises CalculationError outside the domain."""
+    if not 0.0 <= required_hlb < RHLB_SINGULAR:
+        raise CalculationError(("required_hlb",), "below_20", "the formula is singular at a required HLB of 20 and meaningless above it; it needs 0 <= RHLB < 20")
+    return 6.0 * (surfactant_density_g_per_ml / dispersed_density_g_per_ml) / (10.0 - 0.5 * required_hlb)
+
+
+def continuous_term(continuous_phase_percent: float) -> float:
+    """4·Q/1000, g per 100 g."""
+    return CONTINUOUS_TERM_G_PER_PERCENT * continuous_phase_percent
+
+
 def minimum_emulsifier(
     surfactant_density_g_per_ml: float,
     dispersed_density_g_per_ml: float,
@@ -41,12 +58,38 @@ def minimum_emulsifier(
 ) -> MinimumEmulsifier:
     """The estimate in g per 100 g of emulsion, and rounded up to the
     increment. Raises CalculationError outside the formula's domain."""
-    if not 0.0 <= required_hlb < RHLB_SINGULAR:
-        raise CalculationError(("required_hlb",), "below_20", "the formula is singular at a required HLB of 20 and meaningless above it; it needs 0 <= RHLB < 20")
+    constant = constant_part(surfactant_density_g_per_ml, dispersed_density_g_per_ml, required_hlb)
     if not 0.0 < continuous_phase_percent < 100.0:
         raise CalculationError(("continuous_phase_percent",), "between_0_and_100", "the continuous phase must be more than 0 and less than 100 % of the emulsion")
-    qs = 6.0 * (surfactant_density_g_per_ml / dispersed_density_g_per_ml) / (10.0 - 0.5 * required_hlb) + 4.0 * continuous_phase_percent / 1000.0
+    qs = constant + continuous_term(continuous_phase_percent)
     return MinimumEmulsifier(qs, ceil_to(qs, rounding_increment_g_per_100g))
+
+
+@dataclass(frozen=True)
+class SizedEmulsifier:
+    """An emulsifier total sized by the estimate plus a margin (% w/w,
+    unrounded), the estimate itself (g per 100 g), and the continuous phase's
+    share it was computed at (%)."""
+
+    total_percent: float
+    estimate_g_per_100g: float
+    continuous_percent: float
+
+
+def sized_with_margin(constant_g_per_100g: float, margin_fraction: float, continuous_percent: float,
+                      takes_from_continuous: bool) -> SizedEmulsifier:
+    """E = (1 + m)(A + k·Q). When the emulsifier's share is taken from the
+    continuous phase (its q.s. vehicle is there), `continuous_percent` is
+    what the continuous phase would be without it, C, and Q = C − E, so
+    E = (1 + m)(A + k·C) / (1 + (1 + m)·k)."""
+    k, grow = CONTINUOUS_TERM_G_PER_PERCENT, 1.0 + margin_fraction
+    if takes_from_continuous:
+        total = grow * (constant_g_per_100g + k * continuous_percent) / (1.0 + grow * k)
+        q = continuous_percent - total
+    else:
+        total = grow * (constant_g_per_100g + k * continuous_percent)
+        q = continuous_percent
+    return SizedEmulsifier(total, constant_g_per_100g + k * q, q)
 
 
 def estimate_limits(usual_high_percent: float) -> tuple[float, float]:

@@ -5,9 +5,10 @@ from __future__ import annotations
 
 from registry import Registry
 from service.core.batch import mixture_mass_for_volume
-from service.core.emulsifier import OIL_LOAD_NOTE, estimate_limits, minimum_emulsifier, plausibility_finding
+from service.core.emulsifier import OIL_LOAD_NOTE, constant_part, estimate_limits, plausibility_finding, sized_with_margin
 from service.core.errors import CalculationError
 from service.core.findings import ceil_to, off_scale_findings
+from service.core.phases import CONTINUOUS, DISPERSED
 from service.core.mixing import Term, weighted_mean
 from service.core.split import split_for_target
 from service.usecases.answers import hlb_display, UNPUBLISHED_METHOD, finding_warnings
@@ -16,8 +17,6 @@ from service.usecases.resolution import DEFAULT_ESTIMATE_MARGIN_PERCENT, require
 from service.usecases.pairs import DEFAULT_IONIC, oil_chain, ranked
 from service.usecases.measuring import Row, row_density
 
-CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}
-DISPERSED = {"O/W": "oil", "W/O": "aqueous"}
 
 
 def _phase_density(rows: list[Row], registry: Registry, values_used: ValuesUsed, path: tuple) -> float:
@@ -95,7 +94,7 @@ def _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_us
     """Emulsifier % w/w from the minimum estimate plus a margin. The estimate
     depends on the continuous phase's share, which the emulsifier itself
     takes from when the q.s. vehicle is in the continuous phase:
-    E = (1 + m)(A + 0.004 Q) with Q = C - E, solved for E."""
+    the core's sized_with_margin solves for it."""
     spec = data["emulsifier"]["minimum_estimate"]
     etype = data["emulsion_type"]
     margin_given = "margin_percent" in spec
@@ -124,22 +123,18 @@ def _minimum_total(data, rows, rhlb, pair, pair_hlb, target, registry, values_us
                           "the dispersed phase's densities are not all known: give dispersed_phase_density") from exc
     continuous = CONTINUOUS[etype]
     qs_row = next(r for r in rows if r.role == "qs")
-    # The estimate's constant part, at Q = 0 (RHLB domain checked by the core),
-    # on the required HLB as printed.
+    # On the required HLB as printed (its domain checked by the core).
     try:
-        a = minimum_emulsifier(rho_s, rho_d, hlb_display(rhlb.required_hlb.figure), 50.0).g_per_100g - 4.0 * 50.0 / 1000.0
+        a = constant_part(rho_s, rho_d, hlb_display(rhlb.required_hlb.figure))
     except CalculationError as exc:
         raise invalid(("ingredients",), exc.rule, f"the oil phase's required HLB is outside the estimate's domain: {exc.message}") from None
     if qs_row.phase == continuous:
-        c = 100.0 - sum(r.percent for r in rows if r.role != "qs" and r.phase != continuous)
-        total = (1 + margin) * (a + 0.004 * c) / (1 + (1 + margin) * 0.004)
-        q = c - total
+        sized = sized_with_margin(a, margin, 100.0 - sum(r.percent for r in rows if r.role != "qs" and r.phase != continuous), True)
     else:
-        q = sum(r.percent for r in rows if r.phase == continuous)
-        total = (1 + margin) * (a + 0.004 * q)
+        sized = sized_with_margin(a, margin, sum(r.percent for r in rows if r.phase == continuous), False)
+    q, estimate, total = sized.continuous_percent, sized.estimate_g_per_100g, sized.total_percent
     if not 0.0 < q < 100.0:
         raise invalid(("ingredients",), "continuous_phase_share", f"the continuous phase would be {q:g} % of the emulsion")
-    estimate = a + 0.004 * q
     usual_high = usual_emulsifier_high_percent(registry)
     try:
         finding = plausibility_finding(estimate, usual_high, ("emulsifier", "minimum_estimate"))

@@ -10,15 +10,14 @@ from service.usecases import methods
 from service.usecases.answers import envelope, hlb_display, hlb_span_display, unrounded, UNPUBLISHED_METHOD, apparent_hlb_warning, finding_warnings, solid_by_volume_warning
 from service.core import findings as core_findings
 from service.core.blend import blend_hlb
-from service.core.emulsifier import OIL_LOAD_NOTE, estimate_limits, minimum_emulsifier, plausibility_finding
-from service.core.required_hlb import required_hlb
+from service.core.emulsifier import OIL_LOAD_NOTE, continuous_term, estimate_limits, minimum_emulsifier, plausibility_finding
 from service.core.split import split_for_target, total_mass_from_volume
+from service.usecases.oil_phase import oil_phase_hlb
 from service.usecases.provenance import ValuesUsed
 from service.usecases.resolution import (
     BATCH_INCREMENT_G,
     DEFAULT_ERROR_PERCENT,
     DEFAULT_SENSITIVITY_G,
-    RHLB_PROPERTY,
     Resolved,
     amount,
     amount_densities,
@@ -143,22 +142,20 @@ def split(data: dict, registry: Registry, strict: bool = False) -> dict:
     )
 
 
+def oil_phase_request(oil: list[dict], registry: Registry) -> tuple[list[Resolved], list, list[bool]]:
+    """The oil phase of a request: its ingredients, amounts and which count."""
+    items = [resolve(c, ("oil_phase", i), registry) for i, c in enumerate(oil)]
+    return items, [amount(c["amount"]) for c in oil], [c.get("counts_toward_rhlb", True) for c in oil]
+
+
 def oil_phase_rhlb(data: dict, registry: Registry, strict: bool = False) -> dict:
     check_references(data, registry)
     emulsion_type = data["emulsion_type"]
-    prop = RHLB_PROPERTY[emulsion_type]
     oil = data["oil_phase"]
-    items = [resolve(c, ("oil_phase", i), registry) for i, c in enumerate(oil)]
-    counts = [c.get("counts_toward_rhlb", True) for c in oil]
+    items, amounts, counts = oil_phase_request(oil, registry)
     values_used = ValuesUsed()
-    rhlbs = [
-        required_value(it, prop, "required_hlb", registry, values_used, f"{emulsion_type} required HLB") if count else None
-        for it, count in zip(items, counts)
-    ]
-    amounts = [amount(c["amount"]) for c in oil]
-    densities = amount_densities(items, amounts, registry, values_used, strict)
+    result = oil_phase_hlb(items, amounts, counts, emulsion_type, registry, values_used, strict)
     enforce_strict(values_used, strict)
-    result = required_hlb(rhlbs, amounts, densities, counts)
     inputs = _component_inputs(items, [c["amount"] for c in oil], result.weighed, result.phase_fractions)
     for row, count, counted in zip(inputs, counts, result.counted_fractions):
         row["counts_toward_rhlb"] = count
@@ -206,7 +203,7 @@ def emulsifier_minimum(data: dict, registry: Registry) -> dict:
                          "message": f"a required HLB of {rhlb:g} is near the formula's singularity at 20; the estimate grows without bound there and is unreliable"})
     return envelope(
         result={"g_per_100g": estimate.g_per_100g, "g_per_100g_rounded_up": estimate.g_per_100g_rounded_up,
-                "continuous_phase_term_g_per_100g": 4.0 * q / 1000.0, "oil_load_note": OIL_LOAD_NOTE,
+                "continuous_phase_term_g_per_100g": continuous_term(q), "oil_load_note": OIL_LOAD_NOTE,
                 "limits_g_per_100g": dict(zip(("warning_above", "refused_above"), estimate_limits(usual_high))),
                 "basis": "grams of emulsifier per 100 g of emulsion (% w/w); the basis is inferred from the formula's percentage inputs",
                 "batch": batch},

@@ -15,9 +15,11 @@ from service.usecases.measuring import equipment_from, equipment_out, Row, measu
 from service.usecases.provenance import ValuesUsed
 from service.usecases.resolution import enforce_strict, required_value, check_references, resolve
 from service.units import to_canonical
+from service.core.phases import CONTINUOUS
 
 DEFAULT_PROPORTION_STEP_PERCENT = 10.0
-CONTINUOUS = {"O/W": "aqueous", "W/O": "oil"}
+# The vehicle a test emulsion is made up with when the request names none.
+DEFAULT_AQUEOUS_VEHICLE = "purified-water"
 
 
 def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
@@ -31,7 +33,7 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
     shares = weigh([Amount(*to_canonical(c["amount"]["value"], c["amount"]["unit"])) for c in data["oil_phase"]],
                    [None] * len(oil), ("oil_phase",))
     total_share = sum(s.weight for s in shares)
-    vehicle = resolve(data.get("vehicle", {"ingredient": "purified-water"}), ("vehicle",), registry)
+    vehicle = resolve(data.get("vehicle", {"ingredient": DEFAULT_AQUEOUS_VEHICLE}), ("vehicle",), registry)
     enforce_strict(values_used, strict)
     low, high = hlbs[0].figure, hlbs[1].figure
     r = data.get("hlb_range", {"low": low, "high": high})

@@ -4,11 +4,12 @@ from __future__ import annotations
 
 from registry import Registry
 from service.usecases import methods
-from service.usecases.answers import envelope, hlb_display, finding_warnings
-from service.usecases.hlb_calculations import oil_phase_rhlb
+from service.usecases.answers import envelope, finding_warnings, hlb_display, unrounded
+from service.usecases.hlb_calculations import oil_phase_request
+from service.usecases.oil_phase import oil_phase_hlb
 from service.core.candidates import RULE, SINGLE_TOLERANCE_HLB, Pair, Surfactant, candidate_pairs, single_surfactants
 from service.core.findings import GRIFFIN_SCALE_MAX, off_scale_findings
-from service.usecases.provenance import ValueUsed, ValuesUsed
+from service.usecases.provenance import ValuesUsed
 from service.usecases.resolution import enforce_strict, Resolved, check_references, scalar_value
 
 DEFAULT_IONIC = ("nonionic",)
@@ -67,10 +68,10 @@ def candidates(data: dict, registry: Registry, strict: bool = False) -> dict:
     values_used, warnings = ValuesUsed(), []
     chain = None
     if "oil_phase" in data:
-        rhlb = oil_phase_rhlb({"emulsion_type": data["emulsion_type"], "oil_phase": data["oil_phase"]}, registry, strict)
-        target = rhlb["result"]["required_hlb_unrounded"]
-        values_used.extend(ValueUsed.from_dict(v) for v in rhlb["values_used"])
-        chain = oil_chain(registry, [(row["ingredient"], row["percent_w_w"]) for row in rhlb["inputs"]["oil_phase"]])
+        items, amounts, counts = oil_phase_request(data["oil_phase"], registry)
+        phase = oil_phase_hlb(items, amounts, counts, data["emulsion_type"], registry, values_used, strict)
+        target = unrounded(phase.required_hlb.figure)
+        chain = oil_chain(registry, [(it.ingredient_id, f * 100.0) for it, f in zip(items, phase.phase_fractions)])
     else:
         target = data["target_hlb"]
     enforce_strict(values_used, strict)

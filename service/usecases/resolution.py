@@ -12,14 +12,14 @@ from typing import Sequence
 
 from registry import Ingredient, Registry, ValueRecord
 from registry.lookup import closest, either
+from registry.model import PLAUSIBLE_DENSITY_G_PER_ML
 from service.core.amounts import ABSOLUTE, Amount
 from service.core.blend import HlbValue
 from service.core.errors import InvalidInput, UnverifiedValuesRefused, pointer
 from service.units import to_canonical
 from service.usecases.provenance import ValueUsed, ValuesUsed, figures_differ
 
-# Physically plausible densities, g/mL: anything outside is a unit slip.
-DENSITY_RANGE_G_PER_ML = (0.05, 25.0)
+DENSITY_RANGE_G_PER_ML = PLAUSIBLE_DENSITY_G_PER_ML
 
 RHLB_PROPERTY = {"O/W": "required_hlb_ow", "W/O": "required_hlb_wo"}
 

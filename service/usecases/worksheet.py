@@ -13,11 +13,12 @@ from service.core.amounts import Amount
 from service.core.batch import mixture_mass_for_volume, qs_percent, rows_for_batch
 from service.core.errors import CalculationError
 from service.core.measure import capacity_check
-from service.core.required_hlb import required_hlb
+from service.usecases.oil_phase import oil_phase_hlb
 from service.usecases.measuring import equipment_from, equipment_out, Row, measure_row, row_density
 from service.usecases.provenance import ValuesUsed
-from service.usecases.resolution import enforce_strict, hlb_ranges, required_value, RHLB_PROPERTY, check_references, density_value, invalid, resolve
-from service.usecases.emulsifier_system import DISPERSED, emulsifier_rows
+from service.usecases.resolution import check_references, density_value, enforce_strict, hlb_ranges, invalid, resolve
+from service.core.phases import DISPERSED
+from service.usecases.emulsifier_system import emulsifier_rows
 from service.units import from_canonical, to_canonical
 
 # A blend of fixed surfactants within this of the required HLB is taken to
@@ -69,7 +70,6 @@ def _formula_rows(data: dict, registry: Registry, batch_mass_g: float | None, va
 
 
 def _oil_phase(data: dict, rows: list[Row], registry: Registry, values_used: ValuesUsed):
-    prop = RHLB_PROPERTY[data["emulsion_type"]]
     oil = [(r, data["ingredients"][r.path[1]]) for r in rows if r.phase == "oil"]
     if not oil:
         raise invalid(("ingredients",), "has_oil_phase", "an emulsion needs at least one oil-phase ingredient")
@@ -79,10 +79,10 @@ def _oil_phase(data: dict, rows: list[Row], registry: Registry, values_used: Val
                       "an oily q.s. vehicle weighs in the required HLB, so its share must be known first: give the emulsifier "
                       "as total_percent_w_w (or fixed surfactants), not as a minimum estimate")
     counts = [x.get("counts_toward_rhlb", True) for _, x in oil]
-    values = [required_value(r.item, prop, "required_hlb", registry, values_used, f"{data['emulsion_type']} required HLB") if c else None
-              for (r, _), c in zip(oil, counts)]
     try:
-        return required_hlb(values, [Amount("percent_w_w", r.percent) for r, _ in oil], [None] * len(oil), counts), sum(r.percent for r, _ in oil)
+        phase = oil_phase_hlb([r.item for r, _ in oil], [Amount("percent_w_w", r.percent) for r, _ in oil], counts, data["emulsion_type"],
+                              registry, values_used, strict=False)
+        return phase, sum(r.percent for r, _ in oil)
     except CalculationError as exc:
         # The core names the oil phase's own index; point at the ingredient.
         where = oil[exc.path[1]][0].path if len(exc.path) > 1 else ("ingredients",)

@@ -77,3 +77,17 @@ def test_minimum_estimate_hardly_depends_on_the_oil_load():
     # Hand-computed: between 10 % and 90 % continuous phase the estimate moves by 4 x 80 / 1000 = 0.32 g per 100 g.
     low, high = (minimum_emulsifier(1.05, 0.85, 11.6, q).g_per_100g for q in (10.0, 90.0))
     assert math.isclose(high - low, 0.32, rel_tol=1e-9)
+
+
+def test_emulsifier_sized_with_a_margin():
+    from service.core.emulsifier import constant_part, sized_with_margin
+    # Hand-computed: A = 6 (1.05 / 0.85) / (10 - 5.8) = 1.7647. With the emulsifier taken from an 80 % continuous
+    # phase and a 25 % margin: E = 1.25 (A + 0.32) / (1 + 1.25 x 0.004) = 2.5929, Q = 80 - E, estimate A + 0.004 Q.
+    a = constant_part(1.05, 0.85, 11.6)
+    assert a == pytest.approx(6 * 1.05 / 0.85 / 4.2)
+    sized = sized_with_margin(a, 0.25, 80.0, True)
+    assert sized.total_percent == pytest.approx(1.25 * (a + 0.32) / 1.005)
+    assert sized.continuous_percent == pytest.approx(80.0 - sized.total_percent)
+    assert sized.estimate_g_per_100g == pytest.approx(a + 0.004 * sized.continuous_percent)
+    fixed = sized_with_margin(a, 0.0, 70.0, False)  # the continuous phase does not give way
+    assert fixed.total_percent == pytest.approx(a + 0.28) and fixed.continuous_percent == 70.0

@@ -9,6 +9,7 @@ from service.http.schemas.calculation_requests import OilComponentSchema
 from service.http.schemas.common import EMULSION_TYPES, IngredientRefSchema, MassSchema
 from service.http.schemas.fields import ID_PATTERN, Boolean, FullMatch, Number, one_of, text
 from service.http.schemas.worksheet_bodies import CheckSchema, EquipmentOutSchema, EquipmentSchema, MeasureSchema
+from service.usecases.hlb_series import DEFAULT_AQUEOUS_VEHICLE
 
 METHODS = ("griffin_mass_fraction", "griffin_saponification", "griffin_oxyethylene", "davies")
 FORMULA_PATTERN = r"^[A-Z(][A-Za-z0-9()]{0,199}$"
@@ -115,7 +116,7 @@ class SeriesPlanRequestSchema(Schema):
     oil_percent = Number(required=True, exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "Oil phase, % w/w of each test emulsion."})
     emulsifier_percent = Number(required=True, exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "Emulsifier, % w/w of each test emulsion."})
     test_batch = fields.Nested(MassSchema, required=True, metadata={"description": "Mass of each test emulsion."})
-    vehicle = fields.Nested(IngredientRefSchema, metadata={"description": "The continuous-phase vehicle made up to the batch; default purified water."})
+    vehicle = fields.Nested(IngredientRefSchema, metadata={"description": f"The continuous-phase vehicle made up to the batch; default {DEFAULT_AQUEOUS_VEHICLE}."})
     equipment = fields.Nested(EquipmentSchema)
     strict = Boolean()
 
