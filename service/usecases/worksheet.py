@@ -18,7 +18,7 @@ from service.usecases.measuring import equipment_from, equipment_out, Row, measu
 from service.usecases.provenance import ValuesUsed
 from service.usecases.resolution import check_references, density_value, enforce_strict, hlb_ranges, invalid, resolve
 from service.core.phases import DISPERSED
-from service.usecases.emulsifier_system import emulsifier_rows
+from service.usecases.emulsifier_system import Formula, emulsifier_rows
 from service.units import from_canonical, to_canonical
 
 # A blend of fixed surfactants within this of the required HLB is taken to
@@ -114,7 +114,7 @@ def compute(data: dict, registry: Registry, strict: bool) -> Computed:
     rows = _formula_rows(data, registry, batch_mass, values_used)
     _oily_qs_share(data, rows)
     rhlb, _ = _oil_phase(data, rows, registry, values_used)
-    new_rows, info = emulsifier_rows(data, rows, rhlb, registry, strict, values_used, warnings)
+    new_rows, info = emulsifier_rows(Formula(data, rows, registry, strict, values_used, warnings), rhlb)
     all_rows = list(rows)
     # Emulsifier rows go after the oil phase they serve: before the first
     # non-oil row, or at the end.
