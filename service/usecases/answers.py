@@ -12,7 +12,7 @@ from registry import Registry
 from service.core.errors import CalculationError
 from service.core.findings import Finding
 from service.usecases.methods import CAUTIONS, Method
-from service.usecases.provenance import ValueUsed
+from service.usecases.provenance import ValueUsed, source_block
 
 
 def registry_version(registry: Registry) -> dict:
@@ -25,7 +25,7 @@ def method_block(method: Method, registry: Registry) -> dict:
     return {
         "name": method.name,
         "formula": method.formula,
-        "sources": [{"id": s.id, "citation": s.citation, "kind": s.kind} for s in sources],
+        "sources": [source_block(s) for s in sources],
         "assumptions": list(method.assumptions),
     }
 

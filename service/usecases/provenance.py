@@ -22,6 +22,12 @@ def figures_differ(records) -> bool:
     return len({(r.low, r.high) for r in records}) > 1
 
 
+def source_block(source) -> dict:
+    """A source as every answer cites it: id, citation, kind (from a registry
+    Source or a Citation)."""
+    return {"id": source.id, "citation": source.citation, "kind": source.kind}
+
+
 @dataclass(frozen=True)
 class Citation:
     id: str
@@ -72,7 +78,7 @@ class ValueUsed:
         return {
             "ingredient": self.ingredient, "name": self.name, "property": self.property, "pointer": self.pointer,
             "figure": self.figure, "low": self.low, "high": self.high, "unit": self.unit, "origin": self.origin,
-            "source": {"id": self.source.id, "citation": self.source.citation, "kind": self.source.kind} if self.source else None,
+            "source": source_block(self.source) if self.source else None,
             "locator": self.locator, "kind": self.kind, "status": self.status, "local": self.local,
             "recalled_from_memory": self.recalled_from_memory, "sources_disagree": self.sources_disagree, "note": self.note,
             "range_with_doubtful": {"low": self.range_with_doubtful[0], "high": self.range_with_doubtful[1]} if self.range_with_doubtful else None,

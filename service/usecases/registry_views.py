@@ -5,6 +5,7 @@ from registry import Ingredient, Registry, ValueRecord
 from registry.lookup import search
 from registry.model import PROPERTIES, UNITS
 from service.usecases.answers import registry_version
+from service.usecases.provenance import source_block
 
 
 def _figure(ing: Ingredient, prop: str) -> float | None:
@@ -28,7 +29,7 @@ def _record(registry: Registry, r: ValueRecord) -> dict:
     return {
         "figure": r.figure, "low": r.low, "high": r.high, "unit": UNITS.get(r.property),
         "recorded": dict(r.recorded), "recorded_unit": r.unit, "basis": r.basis, "temperature_c": r.temperature_c,
-        "conditions": r.conditions, "source": {"id": source.id, "citation": source.citation, "kind": source.kind},
+        "conditions": r.conditions, "source": source_block(source),
         "locator": r.locator, "kind": r.kind, "method": r.method, "status": r.status,
         "reviewed_by": r.reviewed_by, "reviewed_on": r.reviewed_on, "recalled_from_memory": r.recalled_from_memory,
         "preferred": r.preferred, "preferred_reason": r.preferred_reason, "midpoint_of_range": r.midpoint_of_range,
@@ -61,7 +62,7 @@ def _functions(registry: Registry, ing: Ingredient) -> dict | None:
     if f is None:
         return None
     source = registry.sources[f.source_id]
-    return {"list": list(f.functions), "source": {"id": source.id, "citation": source.citation, "kind": source.kind},
+    return {"list": list(f.functions), "source": source_block(source),
             "locator": f.locator, "status": f.status, "recalled_from_memory": f.recalled_from_memory,
             "reviewed_by": f.reviewed_by, "reviewed_on": f.reviewed_on, "note": f.note}
 
@@ -80,6 +81,6 @@ def ingredient_detail(registry: Registry, ingredient_id: str) -> dict | None:
 
 
 def source_list(registry: Registry) -> dict:
-    sources = [{"id": s.id, "citation": s.citation, "kind": s.kind, "year": s.year, "note": s.note, "local": s.local}
+    sources = [source_block(s) | {"year": s.year, "note": s.note, "local": s.local}
                for s in registry.sources.values()]
     return {"count": len(sources), "sources": sources, "registry": registry_version(registry)}
