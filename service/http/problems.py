@@ -34,8 +34,25 @@ class ApiProblem(Exception):
         self.extra = extra
 
 
+# marshmallow's own messages, by their opening words, and the rule each states;
+# the service's own fields and rules carry theirs (schemas/rules.py's Fault).
+MESSAGE_RULES = (
+    ("Missing data for required field", "required"), ("Unknown field", "unknown_field"), ("Field may not be null", "not_null"),
+    ("Must be one of", "enum"), ("Shorter than", "min_length"), ("Longer than", "max_length"), ("Length must be", "length"),
+    ("Not a valid", "type"), ("Invalid input type", "type"), ("String does not match", "pattern"),
+)
+
+
+def rule_of(message) -> str:
+    rule = getattr(message, "rule", None)
+    if rule:
+        return rule
+    text = str(message)
+    return next((r for prefix, r in MESSAGE_RULES if text.startswith(prefix)), "schema")
+
+
 def flatten_messages(messages, path=()) -> list[dict]:
-    """marshmallow's nested messages as a flat list of {pointer, detail}."""
+    """marshmallow's nested messages as a flat list of {pointer, rule, detail}."""
     out = []
     if isinstance(messages, dict):
         for key, value in messages.items():
@@ -46,9 +63,9 @@ def flatten_messages(messages, path=()) -> list[dict]:
             if isinstance(item, (dict, list, tuple)):
                 out.extend(flatten_messages(item, path))
             else:
-                out.append({"pointer": pointer(path), "detail": str(item)})
+                out.append({"pointer": pointer(path), "rule": rule_of(item), "detail": str(item)})
     else:
-        out.append({"pointer": pointer(path), "detail": str(messages)})
+        out.append({"pointer": pointer(path), "rule": rule_of(messages), "detail": str(messages)})
     return out
 
 
@@ -67,7 +84,7 @@ def problem_response(status: int, title: str, detail: str, *, type_: str = "abou
 def validation_problem(messages, *, location: str = "body") -> ApiProblem:
     errors = flatten_messages(messages)
     if location == "query":
-        errors = [{"parameter": e["pointer"][2:].split("/")[0], "detail": e["detail"]} for e in errors]
+        errors = [{"parameter": e["pointer"][2:].split("/")[0], "rule": e["rule"], "detail": e["detail"]} for e in errors]
     first = errors[0]
     where = first.get("pointer") or first.get("parameter")
     return ApiProblem(422, "Invalid input", f"{len(errors)} input error(s); first at {where}: {first['detail']}", type_=TYPE_INVALID_INPUT, errors=errors)

@@ -17,6 +17,7 @@ from service.http.spec_examples import EXAMPLES
 from service.http.schemas import calculation_requests as calculations, estimate_bodies as estimates, ingredient_bodies as ingredients, meta
 from service.http.schemas import responses as answers, worksheet_bodies as worksheets
 from service.http.schemas.fields import Boolean, Number, QueryNumber
+from service.http.schemas.rules import RuleChecks, published
 
 SPEC_PATH = Path(__file__).resolve().parents[2] / "openapi" / "openapi.json"
 VERSION = "0.1.0"
@@ -147,8 +148,49 @@ def build_spec() -> dict:
             if code == "405":
                 response["headers"] = {"Allow": {"description": "The methods this path allows.", "schema": {"type": "string"}}}
             operation["responses"][code] = response
+        if query is not None:
+            _publish_query_relations(operation, query)
         spec.path(path=path, operations={method: operation})
-    return spec.to_dict()
+    document = spec.to_dict()
+    _publish_rules(document["components"]["schemas"])
+    return document
+
+
+def _rule_schemas() -> dict[str, type]:
+    """Every request schema with rules between its fields, by component name."""
+    found, todo = {}, list(RuleChecks.__subclasses__())
+    while todo:
+        cls = todo.pop()
+        todo.extend(cls.__subclasses__())
+        name = cls.__name__.removesuffix("Schema")
+        found[name] = cls
+    return found
+
+
+def _relations_text(relations: list[str]) -> str:
+    return "Also (not expressible in JSON Schema, checked by the service): " + " ".join(relations)
+
+
+def _publish_rules(components: dict) -> None:
+    """Each schema's rules between fields: as `allOf` fragments where JSON
+    Schema can say them, and as `x-relations` and description text where not."""
+    for name, cls in _rule_schemas().items():
+        if name not in components:
+            continue
+        fragments, relations = published(cls)
+        if fragments:
+            components[name]["allOf"] = fragments
+        if relations:
+            components[name]["x-relations"] = relations
+            described = components[name].get("description", "")
+            components[name]["description"] = (described + " " if described else "") + _relations_text(relations)
+
+
+def _publish_query_relations(operation: dict, query) -> None:
+    fragments, relations = published(query)
+    if relations:
+        operation["x-relations"] = relations
+        operation["description"] += " " + _relations_text(relations)
 
 
 def spec_json(spec: dict) -> str:

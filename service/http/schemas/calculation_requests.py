@@ -11,6 +11,7 @@ from service.http.schemas.common import (
     DensitySchema,
     IngredientRefSchema,
     MassSchema,
+    SensitivitySchema,
 )
 from service.http.schemas.fields import Boolean, Number, one_of
 
@@ -51,7 +52,7 @@ class RequiredHlbRequestSchema(Schema):
 
 
 class BalanceSchema(Schema):
-    sensitivity = fields.Nested(MassSchema, metadata={"description": "Sensitivity requirement; default 6 mg (Class A prescription balance)."})
+    sensitivity = fields.Nested(SensitivitySchema, metadata={"description": "Sensitivity requirement; default 6 mg (Class A prescription balance)."})
     acceptable_error_percent = Number(minimum=0.1, maximum=50, metadata={"description": "Default 5."})
 
 

@@ -2,30 +2,63 @@
 ways of naming an ingredient (a registry id, or inline values)."""
 from __future__ import annotations
 
-from marshmallow import Schema, ValidationError, fields, validates_schema
+from marshmallow import Schema, fields
 
 from service.http.schemas.fields import Boolean, Number, ingredient_id, one_of, text
-from service.units import ABSOLUTE_UNITS, AMOUNT_UNITS, DENSITY_UNITS, MASS_UNITS
+from service.http.schemas.rules import RuleChecks, exactly_one, within_unit_bounds
+from service.usecases.measuring import CAPACITY_G, CAPACITY_ML, READABILITY_G, SENSITIVITY_G, SUBDIVISION_ML
+from service.usecases.resolution import DENSITY_RANGE_G_PER_ML
+from service.units import ABSOLUTE_UNITS, AMOUNT_UNITS, DENSITY_UNITS, MASS_UNITS, VOLUME_UNITS
 
 EMULSION_TYPES = ("O/W", "W/O")
 IONIC_CLASSES = ("nonionic", "anionic", "cationic", "amphoteric")
 PHYSICAL_STATES = ("liquid", "semisolid", "solid")
 
 
-def _quantity(name: str, units, description: str) -> type[Schema]:
-    return Schema.from_dict(
-        {
-            "value": Number(required=True, exclusive_minimum=0, metadata={"description": "A positive, finite number."}),
-            "unit": one_of(units, required=True, metadata={"description": "A unit from the allow-list; free-text units are never parsed."}),
-        },
-        name=name,
-    )
+# Plausible quantities, in canonical units (g, mL, g/mL, parts, % w/w): a
+# figure outside is a slip of unit, refused before any calculation. The same
+# numbers are published, per unit, in the OpenAPI document.
+AMOUNT_BOUNDS = {"mass": (1e-6, 1e6), "volume": (1e-3, 1e6), "parts": (1e-6, 1e6), "percent_w_w": (1e-6, 100.0)}
+BATCH_BOUNDS = {"mass": (0.1, 1e6), "volume": (0.1, 1e6)}
+DENSITY_BOUNDS = {"density": DENSITY_RANGE_G_PER_ML}
 
 
-AmountSchema = _quantity("Amount", AMOUNT_UNITS, "An amount: mass, volume, parts, or % w/w of the formula.")
-AbsoluteAmountSchema = _quantity("AbsoluteAmount", ABSOLUTE_UNITS, "A mass or a volume.")
-MassSchema = _quantity("Mass", MASS_UNITS, "A mass.")
-DensitySchema = _quantity("Density", DENSITY_UNITS, "A density.")
+def per_unit(units, bounds_by_kind: dict[str, tuple[float, float]]) -> dict[str, tuple[float, float]]:
+    """Canonical bounds restated in each unit of the allow-list."""
+    out = {}
+    for token, unit in units.items():
+        low, high = bounds_by_kind[unit.kind]
+        out[token] = (low / unit.to_canonical, high / unit.to_canonical)
+    return out
+
+
+def quantity(name: str, units, bounds_by_kind: dict[str, tuple[float, float]], what: str, code: str = "plausible_amount") -> type[Schema]:
+    """A {value, unit} schema whose value must be plausible for its unit."""
+    schema = type(f"{name}Schema", (RuleChecks,), {
+        "value": Number(required=True, exclusive_minimum=0, metadata={"description": "A positive, finite number, within the bounds of its unit."}),
+        "unit": one_of(units, required=True, metadata={"description": "A unit from the allow-list; free-text units are never parsed."}),
+        "RULES": (within_unit_bounds(code, per_unit(units, bounds_by_kind), what),),
+        "__doc__": f"{what[0].upper()}{what[1:]}, as a value and a unit.",
+    })
+    return schema
+
+
+AmountSchema = quantity("Amount", AMOUNT_UNITS, AMOUNT_BOUNDS, "amount: mass, volume, parts, or % w/w of the formula")
+AbsoluteAmountSchema = quantity("AbsoluteAmount", ABSOLUTE_UNITS, AMOUNT_BOUNDS, "mass or volume")
+MassSchema = quantity("Mass", MASS_UNITS, AMOUNT_BOUNDS, "mass")
+DensitySchema = quantity("Density", DENSITY_UNITS, DENSITY_BOUNDS, "density for a pharmaceutical ingredient", "plausible_density")
+BatchSizeSchema = quantity("BatchSize", ABSOLUTE_UNITS, BATCH_BOUNDS, "batch size")
+
+
+def _equipment(name: str, units, kind: str, bounds: tuple[float, float], what: str) -> type[Schema]:
+    return quantity(name, units, {kind: bounds}, what, "plausible_equipment")
+
+
+GraduateVolumeSchema = _equipment("GraduateVolume", VOLUME_UNITS, "volume", CAPACITY_ML, "graduate capacity")
+SubdivisionSchema = _equipment("Subdivision", VOLUME_UNITS, "volume", SUBDIVISION_ML, "graduate subdivision")
+SensitivitySchema = _equipment("Sensitivity", MASS_UNITS, "mass", SENSITIVITY_G, "balance sensitivity")
+ReadabilitySchema = _equipment("Readability", MASS_UNITS, "mass", READABILITY_G, "balance readability")
+BalanceCapacitySchema = _equipment("BalanceCapacity", MASS_UNITS, "mass", CAPACITY_G, "balance capacity")
 
 
 class InlineIngredientSchema(Schema):
@@ -40,17 +73,15 @@ class InlineIngredientSchema(Schema):
     physical_state = one_of(PHYSICAL_STATES)
 
 
-class IngredientRefSchema(Schema):
+class IngredientRefSchema(RuleChecks):
     """Exactly one of `ingredient` (a registry id) or `inline`."""
+
+    RULES = (exactly_one("ingredient", "inline", "Give exactly one of 'ingredient' (a registry id) or 'inline' (the ingredient's values)."),)
 
     ingredient = ingredient_id()
     inline = fields.Nested(InlineIngredientSchema)
     density = fields.Nested(DensitySchema, metadata={"description": "Overrides the registry's density (e.g. a value measured on the lot in hand); reported as caller-supplied."})
 
-    @validates_schema
-    def _exactly_one(self, data, **kwargs):
-        if ("ingredient" in data) == ("inline" in data):
-            raise ValidationError("Give exactly one of 'ingredient' (a registry id) or 'inline' (the ingredient's values).", field_name="ingredient")
 
 
 class ComponentSchema(IngredientRefSchema):
@@ -58,6 +89,7 @@ class ComponentSchema(IngredientRefSchema):
 
 
 __all__ = [
-    "AbsoluteAmountSchema", "AmountSchema", "Boolean", "ComponentSchema", "DensitySchema", "EMULSION_TYPES",
-    "IngredientRefSchema", "InlineIngredientSchema", "MassSchema",
+    "AbsoluteAmountSchema", "AmountSchema", "BatchSizeSchema", "Boolean", "ComponentSchema", "DensitySchema", "EMULSION_TYPES",
+    "BalanceCapacitySchema", "GraduateVolumeSchema", "IngredientRefSchema", "InlineIngredientSchema", "MassSchema", "ReadabilitySchema",
+    "SensitivitySchema", "SubdivisionSchema", "per_unit", "quantity",
 ]

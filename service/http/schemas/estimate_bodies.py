@@ -2,12 +2,13 @@
 series."""
 from __future__ import annotations
 
-from marshmallow import Schema, ValidationError, fields, validate, validates_schema
+from marshmallow import Schema, fields, validate
 
 from service.http.schemas.responses import RangeSchema, RegistryVersionSchema, answer
 from service.http.schemas.calculation_requests import OilComponentSchema
 from service.http.schemas.common import EMULSION_TYPES, IngredientRefSchema, MassSchema
 from service.http.schemas.fields import ID_PATTERN, Boolean, FullMatch, Number, one_of, text
+from service.http.schemas.rules import Rule, RuleChecks, at_least_one, at_most_one, exactly_one, not_above
 from service.http.schemas.worksheet_bodies import CheckSchema, EquipmentOutSchema, EquipmentSchema, MeasureSchema
 from service.usecases.hlb_series import DEFAULT_AQUEOUS_VEHICLE
 
@@ -28,16 +29,13 @@ ALLOWED = {
 METHOD_FIELDS = set().union(*ALLOWED.values())
 
 
-class MolarPartSchema(Schema):
+class MolarPartSchema(RuleChecks):
     """A molecule or its hydrophilic part: a molecular formula, or a molar mass."""
 
     formula = fields.String(validate=FullMatch(FORMULA_PATTERN, error="Must be a molecular formula such as C16H33(OCH2CH2)20OH."))
     molar_mass_g_per_mol = Number(exclusive_minimum=0, maximum=1000000)
 
-    @validates_schema
-    def _one(self, data, **kwargs):
-        if ("formula" in data) == ("molar_mass_g_per_mol" in data):
-            raise ValidationError("Give exactly one of 'formula' or 'molar_mass_g_per_mol'.", field_name="formula")
+    RULES = (exactly_one("formula", "molar_mass_g_per_mol"),)
 
 
 class GroupCountSchema(Schema):
@@ -45,7 +43,24 @@ class GroupCountSchema(Schema):
     count = Number(required=True, exclusive_minimum=0, maximum=1000, metadata={"description": "How many of the group (an average may be fractional)."})
 
 
-class HlbEstimateRequestSchema(Schema):
+def _method_rules() -> tuple[Rule, ...]:
+    """Per method: the fields it needs, and those it does not use."""
+    rules = []
+    for method in METHODS:
+        unused = sorted(METHOD_FIELDS - ALLOWED[method])
+        when = {"properties": {"method": {"const": method}}, "required": ["method"]}
+        for name in NEEDS[method]:
+            rules.append(Rule("required_by_method", name, f"Required by method {method}.",
+                              lambda d, m=method, n=name: d.get("method") != m or n in d,
+                              {"if": when, "then": {"required": [name]}}, fields=("method", name)))
+        for name in unused:
+            rules.append(Rule("not_used_by_method", name, f"Not used by method {method}.",
+                              lambda d, m=method, n=name: d.get("method") != m or n not in d,
+                              {"if": when, "then": {"not": {"required": [name]}}}, fields=("method", name)))
+    return tuple(rules)
+
+
+class HlbEstimateRequestSchema(RuleChecks):
     method = one_of(METHODS, required=True)
     name = text(metadata={"description": "What the surfactant is, for the record."})
     ionic_class = one_of(("nonionic", "anionic", "cationic", "amphoteric"), metadata={"description": "Default nonionic. Griffin's formulas refuse any other."})
@@ -60,17 +75,7 @@ class HlbEstimateRequestSchema(Schema):
     polyol_percent = Number(minimum=0, maximum=100, metadata={"description": "P, weight % polyol (sorbitol, glycerol...)."})
     groups = fields.List(fields.Nested(GroupCountSchema), validate=validate.Length(min=1, max=30))
 
-    @validates_schema
-    def _method_fields(self, data, **kwargs):
-        method = data["method"] if "method" in data else None
-        if method is None:
-            return
-        for name in NEEDS[method]:
-            if name not in data:
-                raise ValidationError(f"Required by method {method}.", field_name=name)
-        for name in METHOD_FIELDS - ALLOWED[method]:
-            if name in data:
-                raise ValidationError(f"Not used by method {method}.", field_name=name)
+    RULES = _method_rules()
 
 
 class ContributionSchema(Schema):
@@ -101,11 +106,14 @@ class EchoSchema(Schema):
     request = fields.Dict(required=True)
 
 
-HlbBoundsSchema = Schema.from_dict({"low": Number(required=True, minimum=0, maximum=60),
-                                    "high": Number(required=True, minimum=0, maximum=60)}, name="HlbBounds")
+class HlbBoundsSchema(RuleChecks):
+    low = Number(required=True, minimum=0, maximum=60)
+    high = Number(required=True, minimum=0, maximum=60)
+
+    RULES = (not_above("low", "high", "low must not exceed high."),)
 
 
-class SeriesPlanRequestSchema(Schema):
+class SeriesPlanRequestSchema(RuleChecks):
     emulsion_type = one_of(EMULSION_TYPES, required=True)
     pair = fields.List(fields.Nested(IngredientRefSchema), required=True, validate=validate.Length(equal=2))
     hlb_range = fields.Nested(HlbBoundsSchema, metadata={"description": "Default: all the pair reaches."})
@@ -120,12 +128,7 @@ class SeriesPlanRequestSchema(Schema):
     equipment = fields.Nested(EquipmentSchema)
     strict = Boolean()
 
-    @validates_schema
-    def _step(self, data, **kwargs):
-        if "step_hlb" in data and "proportion_step_percent" in data:
-            raise ValidationError("Give 'step_hlb' or 'proportion_step_percent', not both.", field_name="step_hlb")
-        if "hlb_range" in data and data["hlb_range"]["low"] > data["hlb_range"]["high"]:
-            raise ValidationError("low must not exceed high.", field_name="hlb_range")
+    RULES = (at_most_one("proportion_step_percent", "step_hlb", "Give 'step_hlb' or 'proportion_step_percent', not both."),)
 
 
 class SeriesRowSchema(Schema):
@@ -156,14 +159,26 @@ class SeriesPlanResultSchema(Schema):
     equipment = fields.Nested(EquipmentOutSchema, required=True)
 
 
-class ObservationSchema(Schema):
+OBSERVATIONS = ("score", "passed", "mean_droplet_um")
+
+
+def _same_in_every_test(key: str) -> Rule:
+    return Rule("same_observation_kind", "tests", f"Give '{key}' for every test or for none.",
+                lambda d: len({key in t for t in d.get("tests", [])}) <= 1,
+                {"properties": {"tests": {"oneOf": [{"items": {"required": [key]}}, {"items": {"not": {"required": [key]}}}]}}},
+                fields=("tests",))
+
+
+class ObservationSchema(RuleChecks):
     hlb = Number(required=True, minimum=0, maximum=60)
     score = Number(minimum=-1000, maximum=1000, metadata={"description": "A stability score (by default higher is better)."})
     passed = Boolean(metadata={"description": "Whether the emulsion passed (no separation in the test period)."})
     mean_droplet_um = Number(exclusive_minimum=0, maximum=100000, metadata={"description": "Measured mean droplet size, µm (smaller is better)."})
 
+    RULES = (at_least_one(*OBSERVATIONS, message="Each test needs an observation: score, passed, or mean_droplet_um."),)
 
-class SeriesEvaluateRequestSchema(Schema):
+
+class SeriesEvaluateRequestSchema(RuleChecks):
     strict = Boolean()
     tests = fields.List(fields.Nested(ObservationSchema), required=True, validate=validate.Length(min=2, max=41))
     higher_score_is_better = Boolean(metadata={"description": "Default true."})
@@ -171,20 +186,12 @@ class SeriesEvaluateRequestSchema(Schema):
     pair = fields.List(fields.Nested(IngredientRefSchema), validate=validate.Length(equal=2),
                        metadata={"description": "The series' surfactant pair: the next series is then also given as the pair's proportions, within its reach."})
 
-    @validates_schema
-    def _same_observations(self, data, **kwargs):
-        tests = data.get("tests", [])
-        for key in ("score", "passed", "mean_droplet_um"):
-            present = [key in t for t in tests]
-            if any(present) and not all(present):
-                raise ValidationError(f"Give '{key}' for every test or for none.", field_name="tests")
-        if tests and not any(k in tests[0] for k in ("score", "passed", "mean_droplet_um")):
-            raise ValidationError("Each test needs an observation: score, passed, or mean_droplet_um.", field_name="tests")
-        hlbs = [t["hlb"] for t in tests]
-        if len(set(hlbs)) != len(hlbs):
-            raise ValidationError("Each test must have its own HLB.", field_name="tests")
-        if "pair" in data and "pair_hlb_range" in data:
-            raise ValidationError("Give 'pair' or 'pair_hlb_range', not both: the pair sets its own reach.", field_name="pair_hlb_range")
+    RULES = tuple(_same_in_every_test(k) for k in OBSERVATIONS) + (
+        Rule("distinct_test_hlb", "tests", "Each test must have its own HLB.",
+             lambda d: len({t["hlb"] for t in d.get("tests", [])}) == len(d.get("tests", [])),
+             relation="Each test in `tests` has its own `hlb`.", fields=("tests",)),
+        at_most_one("pair", "pair_hlb_range", "Give 'pair' or 'pair_hlb_range', not both: the pair sets its own reach."),
+    )
 
 
 class SeriesEvaluateResultSchema(Schema):

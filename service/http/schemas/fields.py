@@ -12,6 +12,7 @@ import re
 from marshmallow import ValidationError, fields, validate
 
 from service.http.jsonio import NonFiniteNumber
+from service.http.schemas.rules import Fault
 
 # The largest amount or number a request may carry: far beyond any batch, and
 # small enough that sums and products stay finite.
@@ -31,20 +32,20 @@ class Number(fields.Float):
 
     def _deserialize(self, value, attr, data, **kwargs):
         if isinstance(value, NonFiniteNumber):
-            raise ValidationError(f"{value.text} is not accepted: a finite number is required.")
+            raise ValidationError(Fault(f"{value.text} is not accepted: a finite number is required.", "finite_number"))
         if isinstance(value, bool) or not isinstance(value, (int, float)):
             raise self.make_error("invalid")
         # Bounds are compared before float(), so a 400-digit integer is refused
         # rather than overflowing.
         b = self.bounds
         if b["minimum"] is not None and value < b["minimum"]:
-            raise ValidationError(f"Must be at least {b['minimum']:g}.")
+            raise ValidationError(Fault(f"Must be at least {b['minimum']:g}.", "minimum"))
         if b["maximum"] is not None and value > b["maximum"]:
-            raise ValidationError(f"Must be at most {b['maximum']:g}.")
+            raise ValidationError(Fault(f"Must be at most {b['maximum']:g}.", "maximum"))
         if b["exclusiveMinimum"] is not None and value <= b["exclusiveMinimum"]:
-            raise ValidationError(f"Must be greater than {b['exclusiveMinimum']:g}.")
+            raise ValidationError(Fault(f"Must be greater than {b['exclusiveMinimum']:g}.", "exclusive_minimum"))
         if b["exclusiveMaximum"] is not None and value >= b["exclusiveMaximum"]:
-            raise ValidationError(f"Must be less than {b['exclusiveMaximum']:g}.")
+            raise ValidationError(Fault(f"Must be less than {b['exclusiveMaximum']:g}.", "exclusive_maximum"))
         number = float(value)
         if not math.isfinite(number):
             raise self.make_error("invalid")
@@ -67,9 +68,9 @@ class Integer(fields.Integer):
         if isinstance(value, bool) or not isinstance(value, (int, float)) or (isinstance(value, float) and not value.is_integer()):
             raise self.make_error("invalid")
         if self.minimum is not None and value < self.minimum:
-            raise ValidationError(f"Must be at least {self.minimum}.")
+            raise ValidationError(Fault(f"Must be at least {self.minimum}.", "minimum"))
         if self.maximum is not None and value > self.maximum:
-            raise ValidationError(f"Must be at most {self.maximum}.")
+            raise ValidationError(Fault(f"Must be at most {self.maximum}.", "maximum"))
         return int(value)
 
 
@@ -90,7 +91,7 @@ class FullMatch(validate.Regexp):
 
     def __call__(self, value):
         if self.regex.fullmatch(value) is None:
-            raise ValidationError(self._format_error(value))
+            raise ValidationError(Fault(self._format_error(value), "pattern"))
         return value
 
 

@@ -2,11 +2,12 @@
 provenance, and the bibliography."""
 from __future__ import annotations
 
-from marshmallow import Schema, ValidationError, fields, validate, validates_schema
+from marshmallow import Schema, fields, validate
 
 from registry.model import FUNCTIONS
 from service.http.schemas.responses import CitationSchema, RegistryVersionSchema
 from service.http.schemas.fields import QueryNumber, one_of
+from service.http.schemas.rules import RuleChecks, not_above
 
 ROLES = ("surfactant", "oil_phase", "aqueous_phase", "hydrocolloid")
 IONIC_CLASSES = ("nonionic", "anionic", "cationic", "amphoteric", "not_applicable")
@@ -16,7 +17,7 @@ IONIC_CLASSES = ("nonionic", "anionic", "cationic", "amphoteric", "not_applicabl
 MAX_SEARCH_LENGTH = 120
 
 
-class IngredientQuerySchema(Schema):
+class IngredientQuerySchema(RuleChecks):
     q = fields.String(validate=validate.Length(min=1, max=MAX_SEARCH_LENGTH), metadata={
         "description": "Ingredients whose name, a synonym or the id holds this text, ignoring case (e.g. `oleate`)."})
     role = one_of(ROLES)
@@ -25,10 +26,7 @@ class IngredientQuerySchema(Schema):
     hlb_min = QueryNumber(minimum=0, maximum=60, metadata={"description": "Surfactants whose preferred HLB is at least this."})
     hlb_max = QueryNumber(minimum=0, maximum=60, metadata={"description": "Surfactants whose preferred HLB is at most this."})
 
-    @validates_schema
-    def _ordered(self, data, **kwargs):
-        if "hlb_min" in data and "hlb_max" in data and data["hlb_min"] > data["hlb_max"]:
-            raise ValidationError("hlb_min must not exceed hlb_max.", field_name="hlb_min")
+    RULES = (not_above("hlb_min", "hlb_max"),)
 
 
 class ValueRecordSchema(Schema):

@@ -2,13 +2,17 @@
 rescaling of a worksheet."""
 from __future__ import annotations
 
-from marshmallow import Schema, ValidationError, fields, validate, validates_schema
+from marshmallow import Schema, fields, validate
 
 from service.http.schemas.responses import AmountOutSchema, RangeSchema, answer
 from service.http.schemas.calculation_requests import OilComponentSchema
-from service.http.schemas.common import EMULSION_TYPES, IONIC_CLASSES, AmountSchema, DensitySchema, IngredientRefSchema, MassSchema
+from service.http.schemas.common import (
+    EMULSION_TYPES, IONIC_CLASSES, AmountSchema, BalanceCapacitySchema, BatchSizeSchema, DensitySchema, GraduateVolumeSchema,
+    IngredientRefSchema, ReadabilitySchema, SensitivitySchema, SubdivisionSchema,
+)
 from service.http.schemas.fields import Boolean, Integer, Number, one_of
-from service.units import ABSOLUTE_UNITS, MASS_UNITS, VOLUME_UNITS
+from service.http.schemas.rules import Rule, RuleChecks, at_most_one, exactly_one, requires, share_or_flag
+from service.units import MASS_UNITS, VOLUME_UNITS
 
 PHASES = ("oil", "aqueous", "other")
 MAX_INGREDIENTS = 40
@@ -20,10 +24,7 @@ class FormulaIngredientSchema(IngredientRefSchema):
     qs = Boolean(metadata={"description": "true for the one vehicle made up to the batch (q.s.)."})
     counts_toward_rhlb = Boolean(metadata={"description": "For an oil-phase ingredient: false leaves it out of the required-HLB mean. Default true."})
 
-    @validates_schema
-    def _share_or_qs(self, data, **kwargs):
-        if ("share" in data) == bool(data.get("qs")):
-            raise ValidationError("Give exactly one of 'share' or 'qs': true.", field_name="share")
+    RULES = IngredientRefSchema.RULES + (share_or_flag("share", "qs"),)
 
 
 class FixedEmulsifierSchema(IngredientRefSchema):
@@ -45,7 +46,29 @@ class ProposeSchema(Schema):
     include_off_scale_hlb = Boolean(metadata={"description": OFF_SCALE_DESCRIPTION})
 
 
-class EmulsifierSchema(Schema):
+def _req(*names: str) -> dict:
+    return {"required": list(names)}
+
+
+SOLVING = {"anyOf": [_req("pair"), _req("propose")]}
+EMULSIFIER_RULES = (
+    at_most_one("pair", "propose"),
+    Rule("at_least_one_of", "pair", "Give a 'pair', 'propose', or 'fixed' surfactants.",
+         lambda d: "pair" in d or "propose" in d or bool(d.get("fixed")),
+         {"anyOf": [_req("pair"), _req("propose"), {"required": ["fixed"], "properties": {"fixed": {"minItems": 1}}}]},
+         fields=("pair", "propose", "fixed")),
+    Rule("exactly_one_of", "total_percent_w_w", "With a pair, give exactly one of 'total_percent_w_w' or 'minimum_estimate'.",
+         lambda d: not ("pair" in d or "propose" in d) or (("total_percent_w_w" in d) != ("minimum_estimate" in d)),
+         {"if": SOLVING, "then": {"oneOf": [_req("total_percent_w_w"), _req("minimum_estimate")]}},
+         fields=("pair", "propose", "total_percent_w_w", "minimum_estimate")),
+    Rule("not_without_pair", "total_percent_w_w", "Without a pair, the fixed surfactants are the whole emulsifier system.",
+         lambda d: "pair" in d or "propose" in d or not any(k in d for k in ("total_percent_w_w", "minimum_estimate", "target_hlb")),
+         {"if": {"not": SOLVING}, "then": {"not": {"anyOf": [_req("total_percent_w_w"), _req("minimum_estimate"), _req("target_hlb")]}}},
+         fields=("pair", "propose", "total_percent_w_w", "minimum_estimate", "target_hlb")),
+)
+
+
+class EmulsifierSchema(RuleChecks):
     pair = fields.List(fields.Nested(IngredientRefSchema), validate=validate.Length(equal=2),
                        metadata={"description": "The two surfactants whose proportions are solved for the oil phase's required HLB."})
     propose = fields.Nested(ProposeSchema, metadata={"description": "Let the service choose the top-ranked candidate pair."})
@@ -55,40 +78,20 @@ class EmulsifierSchema(Schema):
     total_percent_w_w = Number(exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "The whole emulsifier system, % w/w of the formula."})
     minimum_estimate = fields.Nested(MinimumEstimateSchema, metadata={"description": "Size the emulsifier by the minimum estimate plus a margin."})
 
-    @validates_schema
-    def _consistent(self, data, **kwargs):
-        if "pair" in data and "propose" in data:
-            raise ValidationError("Give 'pair' or 'propose', not both.", field_name="propose")
-        solving = "pair" in data or "propose" in data
-        if not solving and not data.get("fixed"):
-            raise ValidationError("Give a 'pair', 'propose', or 'fixed' surfactants.", field_name="pair")
-        if solving and ("total_percent_w_w" in data) == ("minimum_estimate" in data):
-            raise ValidationError("With a pair, give exactly one of 'total_percent_w_w' or 'minimum_estimate'.", field_name="total_percent_w_w")
-        if not solving and ("total_percent_w_w" in data or "minimum_estimate" in data or "target_hlb" in data):
-            raise ValidationError("Without a pair, the fixed surfactants are the whole emulsifier system.", field_name="total_percent_w_w")
-
-
-VolumeSchema = Schema.from_dict({
-    "value": Number(required=True, exclusive_minimum=0, maximum=100000),
-    "unit": one_of(VOLUME_UNITS, required=True),
-}, name="Volume")
-BatchSizeSchema = Schema.from_dict({
-    "value": Number(required=True, exclusive_minimum=0, maximum=1000000),
-    "unit": one_of(ABSOLUTE_UNITS, required=True),
-}, name="BatchSize")
+    RULES = EMULSIFIER_RULES
 
 
 class GraduateSchema(Schema):
-    capacity = fields.Nested(VolumeSchema, required=True)
-    subdivision = fields.Nested(VolumeSchema, metadata={"description": "Its smallest graduation; default capacity / 50."})
+    capacity = fields.Nested(GraduateVolumeSchema, required=True)
+    subdivision = fields.Nested(SubdivisionSchema, metadata={"description": "Its smallest graduation; default capacity / 50."})
     conical = Boolean(metadata={"description": "A conical graduate; one under 25 mL is not used. Default false (cylindrical)."})
 
 
 class WorksheetBalanceSchema(Schema):
-    sensitivity = fields.Nested(MassSchema, metadata={"description": "Default 6 mg (Class A prescription balance)."})
+    sensitivity = fields.Nested(SensitivitySchema, metadata={"description": "Default 6 mg (Class A prescription balance)."})
     acceptable_error_percent = Number(minimum=0.1, maximum=50, metadata={"description": "Default 5."})
-    readability = fields.Nested(MassSchema, metadata={"description": "What the balance reads to; masses are rounded to it. Default 10 mg."})
-    capacity = fields.Nested(MassSchema, metadata={"description": "The largest load it weighs; a heavier row, or a batch made up to weight on it, is flagged. Default 120 g (Class A prescription balance)."})
+    readability = fields.Nested(ReadabilitySchema, metadata={"description": "What the balance reads to; masses are rounded to it. Default 10 mg."})
+    capacity = fields.Nested(BalanceCapacitySchema, metadata={"description": "The largest load it weighs; a heavier row, or a batch made up to weight on it, is flagged. Default 120 g (Class A prescription balance)."})
 
 
 class EquipmentSchema(Schema):
@@ -117,7 +120,7 @@ class RescaleRequestSchema(Schema):
     batch = fields.Nested(BatchSizeSchema, required=True, metadata={"description": "The new batch size."})
 
 
-class CandidateRequestSchema(Schema):
+class CandidateRequestSchema(RuleChecks):
     target_hlb = Number(minimum=0, maximum=60)
     emulsion_type = one_of(EMULSION_TYPES)
     oil_phase = fields.List(fields.Nested(OilComponentSchema), validate=validate.Length(min=1, max=30),
@@ -127,12 +130,7 @@ class CandidateRequestSchema(Schema):
     include_off_scale_hlb = Boolean(metadata={"description": OFF_SCALE_DESCRIPTION})
     strict = Boolean()
 
-    @validates_schema
-    def _target_or_oil(self, data, **kwargs):
-        if ("target_hlb" in data) == ("oil_phase" in data):
-            raise ValidationError("Give exactly one of 'target_hlb' or 'oil_phase'.", field_name="target_hlb")
-        if "oil_phase" in data and "emulsion_type" not in data:
-            raise ValidationError("An oil phase needs its emulsion_type.", field_name="emulsion_type")
+    RULES = (exactly_one("target_hlb", "oil_phase"), requires("oil_phase", "emulsion_type", "An oil phase needs its emulsion_type."))
 
 
 # Answers
