@@ -17,6 +17,7 @@ from service.http.spec_examples import EXAMPLES
 from service.http.schemas import calculation_requests as calculations, estimate_bodies as estimates, ingredient_bodies as ingredients, meta
 from service.http.schemas import responses as answers, worksheet_bodies as worksheets
 from service.http.schemas.fields import Boolean, Number, QueryNumber
+from service.http.schemas.enums import publish as publish_enums
 from service.http.schemas.rules import RuleChecks, published
 
 SPEC_PATH = Path(__file__).resolve().parents[2] / "openapi" / "openapi.json"
@@ -153,7 +154,47 @@ def build_spec() -> dict:
         spec.path(path=path, operations={method: operation})
     document = spec.to_dict()
     _publish_rules(document["components"]["schemas"])
+    publish_enums(document)
+    _open_answers(document)
     return document
+
+
+def _refs(node, found: set[str]) -> set[str]:
+    if isinstance(node, dict):
+        ref = node.get("$ref", "")
+        if ref.startswith("#/components/schemas/"):
+            found.add(ref.rsplit("/", 1)[1])
+        for value in node.values():
+            _refs(value, found)
+    elif isinstance(node, list):
+        for value in node:
+            _refs(value, found)
+    return found
+
+
+def _closure(names: set[str], schemas: dict) -> set[str]:
+    todo, seen = list(names), set()
+    while todo:
+        name = todo.pop()
+        if name not in seen:
+            seen.add(name)
+            todo.extend(_refs(schemas[name], set()) - seen)
+    return seen
+
+
+def _open_answers(document: dict) -> None:
+    """Answers may grow (the compatibility rule of /v1): a schema used only in
+    answers does not forbid further members; request schemas still do."""
+    schemas = document["components"]["schemas"]
+    requests: set[str] = set()
+    for operations in document["paths"].values():
+        for operation in operations.values():
+            _refs(operation.get("requestBody", {}), requests)
+            _refs(operation.get("parameters", []), requests)
+    in_requests = _closure(requests, schemas)
+    for name, schema in schemas.items():
+        if name not in in_requests and schema.get("additionalProperties") is False:
+            del schema["additionalProperties"]
 
 
 def _rule_schemas() -> dict[str, type]:

@@ -11,7 +11,7 @@ from registry import Registry
 from service.core.aliquot import aliquot_plan
 from service.core.batch import BatchRow
 from service.core.measure import Balance, Check, Graduate, choose_graduate, rounding_check, round_to, weighing_checks
-from service.usecases.resolution import DEFAULT_ERROR_PERCENT, DEFAULT_SENSITIVITY_G, Resolved, density_value, invalid
+from service.usecases.resolution import BOUND_SLACK, DEFAULT_ERROR_PERCENT, DEFAULT_SENSITIVITY_G, Resolved, density_value, invalid
 from service.units import to_canonical
 from service.usecases.provenance import ValuesUsed
 
@@ -119,7 +119,8 @@ SUBDIVISION_ML = (1e-4, 1000.0)
 def _value(given: dict, path: tuple, bounds: tuple[float, float], unit: str) -> float:
     value = to_canonical(given["value"], given["unit"])[1]
     low, high = bounds
-    if not low <= value <= high:
+    # The relative slack absorbs float error of a unit conversion at a bound.
+    if not low * (1 - BOUND_SLACK) <= value <= high * (1 + BOUND_SLACK):
         raise invalid(path + ("value",), "plausible_equipment", f"{value:g} {unit} is outside {low:g} to {high:g} {unit}: check the unit")
     return value
 

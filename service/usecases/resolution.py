@@ -20,6 +20,9 @@ from service.units import to_canonical
 from service.usecases.provenance import ValueUsed, ValuesUsed, figures_differ
 
 DENSITY_RANGE_G_PER_ML = PLAUSIBLE_DENSITY_G_PER_ML
+# Relative slack of the plausibility bounds: a figure at a bound, converted
+# from another unit, may land a few ulps outside it.
+BOUND_SLACK = 1e-9
 
 RHLB_PROPERTY = {"O/W": "required_hlb_ow", "W/O": "required_hlb_wo"}
 
@@ -165,7 +168,7 @@ def checked_density(given: dict, path: tuple) -> float:
     """A density from the request in g/mL, refused when implausible."""
     _, g_per_ml = to_canonical(given["value"], given["unit"])
     low, high = DENSITY_RANGE_G_PER_ML
-    if not low <= g_per_ml <= high:
+    if not low * (1 - BOUND_SLACK) <= g_per_ml <= high * (1 + BOUND_SLACK):
         raise invalid(path + ("value",), "plausible_density",
                       f"{g_per_ml:g} g/mL is not a plausible density for a pharmaceutical ingredient ({low:g} to {high:g} g/mL): check the unit")
     return g_per_ml
@@ -239,10 +242,14 @@ def amount_densities(items, amounts: Sequence[Amount], registry, values_used, st
     return densities_for(items, [a.kind == "volume" for a in amounts], registry, values_used, strict)
 
 
+# One refusal code per kind of value, whatever the emulsion type.
+KNOWN_RULES = {"hlb": "hlb_known", "required_hlb_ow": "required_hlb_known", "required_hlb_wo": "required_hlb_known"}
+
+
 def required_value(item: Resolved, prop: str, inline_key: str, registry: Registry, values_used: ValuesUsed, what: str):
     found = scalar_value(item, prop, inline_key, registry)
     if found is None:
         where = item.path + (("inline", inline_key) if item.record is None else ("ingredient",))
-        raise invalid(where, f"{prop}_known", f"no {what} is known for {item.label}: describe the ingredient inline with a value from your own source, or choose another ingredient")
+        raise invalid(where, KNOWN_RULES[prop], f"no {what} is known for {item.label}: describe the ingredient inline with a value from your own source, or choose another ingredient")
     values_used.add(found[1])
     return found[0]

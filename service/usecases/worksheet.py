@@ -64,8 +64,8 @@ def _formula_rows(data: dict, registry: Registry, batch_mass_g: float | None, va
                 row.percent = value / batch_mass_g * 100.0
         rows.append(row)
     qs = [r for r in rows if r.role == "qs"]
-    if len(qs) != 1:
-        raise invalid(("ingredients",), "one_qs_vehicle", f"exactly one ingredient must be the q.s. vehicle (found {len(qs)})")
+    if len(qs) > 1:
+        raise invalid(("ingredients",), "one_qs_vehicle", f"at most one ingredient may be the q.s. vehicle (found {len(qs)})")
     return rows
 
 
@@ -93,9 +93,9 @@ def _oily_qs_share(data: dict, rows: list[Row]) -> None:
     """An oily q.s. vehicle (a W/O base made up with its oil) is part of the
     oil phase whose required HLB decides the emulsifier; its share is known
     up front when the emulsifier's total is."""
-    qs = next(r for r in rows if r.role == "qs")
+    qs = next((r for r in rows if r.role == "qs"), None)
     spec = data["emulsifier"]
-    if qs.phase != "oil":
+    if qs is None or qs.phase != "oil":
         return
     if "pair" in spec or "propose" in spec:
         if "total_percent_w_w" not in spec:
@@ -104,6 +104,26 @@ def _oily_qs_share(data: dict, rows: list[Row]) -> None:
     else:
         total = sum(f["percent_w_w"] for f in spec.get("fixed", []))
     qs.percent = qs_percent([r.percent for r in rows] + [total], rows.index(qs), qs.path)
+
+
+# A formula stated in full, with no q.s. vehicle, must add up to 100 % w/w
+# within this: shares written to two decimals may leave a hundredth over.
+FORMULA_TOTAL_TOLERANCE_PERCENT = 0.01
+
+
+def _check_adds_up(rows: list[Row]) -> None:
+    total = sum(r.percent for r in rows)
+    if abs(total - 100.0) > FORMULA_TOTAL_TOLERANCE_PERCENT:
+        raise invalid(("ingredients",), "formula_adds_up",
+                      f"with no q.s. vehicle the shares, emulsifier included, must add up to 100 % w/w; they add up to {total:.6g} %: "
+                      "mark the vehicle q.s., or correct the shares")
+
+
+def residue_row(rows: list[Row]) -> int:
+    """The row that takes the rounding residue: the q.s. vehicle, or, in a
+    formula stated in full, its largest share."""
+    qs_i = next((i for i, r in enumerate(rows) if r.role == "qs"), None)
+    return qs_i if qs_i is not None else max(range(len(rows)), key=lambda i: rows[i].percent)
 
 
 def compute(data: dict, registry: Registry, strict: bool) -> Computed:
@@ -120,8 +140,11 @@ def compute(data: dict, registry: Registry, strict: bool) -> Computed:
     # non-oil row, or at the end.
     insert_at = max((i + 1 for i, r in enumerate(all_rows) if r.phase == "oil"), default=len(all_rows))
     all_rows[insert_at:insert_at] = new_rows
-    qs_i = next(i for i, r in enumerate(all_rows) if r.role == "qs")
-    all_rows[qs_i].percent = qs_percent([r.percent for r in all_rows], qs_i, all_rows[qs_i].path)
+    qs_i = next((i for i, r in enumerate(all_rows) if r.role == "qs"), None)
+    if qs_i is not None:
+        all_rows[qs_i].percent = qs_percent([r.percent for r in all_rows], qs_i, all_rows[qs_i].path)
+    else:
+        _check_adds_up(all_rows)
     batch_volume = None
     if batch_mass is None:
         batch_volume = b_value
@@ -205,7 +228,7 @@ def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_fro
     balance, graduates, defaults = equipment_from(data.get("equipment", {}))
     units = data.get("output_units", {})
     mass_unit, volume_unit = units.get("mass", "g"), units.get("volume", "mL")
-    qs_i = next(i for i, r in enumerate(c.rows) if r.role == "qs")
+    qs_i = residue_row(c.rows)
     batch_rows = rows_for_batch([r.percent for r in c.rows], c.batch_mass_g, qs_i, balance.readability_g)
     out_rows = []
     for row, b in zip(c.rows, batch_rows):
@@ -234,6 +257,11 @@ def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_fro
         for k in row["checks"]:
             if not k["ok"]:
                 warnings.append({"code": f"check_{k['code']}", "subject": row["ingredient"] or row["name"], "message": k["message"]})
+    if c.rows[qs_i].role != "qs":
+        residue_g = batch_rows[qs_i].mass_g - batch_rows[qs_i].mass_g_unrounded
+        warnings.append({"code": "rounding_residue_to_largest_share", "subject": c.rows[qs_i].item.ingredient_id or c.rows[qs_i].item.label,
+                         "message": f"no q.s. vehicle: the rounding residue of the other rows, {residue_g:+.6g} g, is taken up by "
+                                    f"{c.rows[qs_i].item.label}, the largest share, so that the masses add up to the batch"})
     failed = sum(not k["ok"] for k in checks) + sum(not k["ok"] for row in out_rows for k in row["checks"])
     emulsifier = {k: v for k, v in c.emulsifier.items() if not k.startswith("_")}
     result = {

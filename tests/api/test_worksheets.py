@@ -278,3 +278,39 @@ def test_candidates_prefer_the_oils_own_fatty_chain(client):
     mixed = client.post("/v1/candidate-pairs", json={"emulsion_type": "O/W", "limit": 5, "oil_phase": [
         {"ingredient": "mineral-oil", "amount": share(3, "g")}, {"ingredient": "stearyl-alcohol", "amount": share(1, "g")}]}).get_json()
     assert mixed["result"]["oil_fatty_chain"] is None  # the C18 part is not the larger part of the oil phase
+
+
+def _fully_stated(water_percent):
+    body = copy.deepcopy(LOTION)
+    body["ingredients"][-1] = {"ingredient": "purified-water", "phase": "aqueous", "share": share(water_percent)}
+    return body
+
+
+def test_a_formula_stated_in_full_needs_no_qs_vehicle(client):
+    # 10 + 8 + 2 + 5 + 5 (emulsifier) + 70 = 100 % w/w: arithmetic of the
+    # formula itself (common practice, no source), no vehicle marked q.s.
+    r = client.post(SHEET, json=_fully_stated(70))
+    assert r.status_code == 200, r.get_data(as_text=True)
+    body = r.get_json()
+    water = rows(body)["Purified water"]
+    assert water["role"] != "qs"
+    assert water["mass_g"] == pytest.approx(140.0, abs=0.02)
+    assert body["result"]["totals"]["mass_g"] == pytest.approx(200.0)
+    assert {c["code"]: c["ok"] for c in body["result"]["checks"]}["totals_add_up"] is True
+    residue = [w for w in body["warnings"] if w["code"] == "rounding_residue_to_largest_share"]
+    assert residue and residue[0]["subject"] == "purified-water"
+
+
+def test_a_formula_without_qs_must_add_up_to_100(client):
+    r = client.post(SHEET, json=_fully_stated(60))
+    assert r.status_code == 422
+    item = r.get_json()["errors"][0]
+    assert (item["pointer"], item["rule"]) == ("#/ingredients", "formula_adds_up")
+    assert "90 %" in item["detail"]
+
+
+def test_two_qs_vehicles_are_refused(client):
+    body = copy.deepcopy(LOTION)
+    body["ingredients"][3] = {"ingredient": "glycerin", "phase": "aqueous", "qs": True}
+    r = client.post(SHEET, json=body)
+    assert r.status_code == 422 and r.get_json()["errors"][0]["rule"] == "one_qs_vehicle"

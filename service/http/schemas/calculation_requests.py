@@ -14,6 +14,7 @@ from service.http.schemas.common import (
     SensitivitySchema,
 )
 from service.http.schemas.fields import Boolean, Number, one_of
+from service.http.schemas.enums import enum_field
 
 MAX_COMPONENTS = 30
 
@@ -21,7 +22,7 @@ MAX_COMPONENTS = 30
 class BlendRequestSchema(Schema):
     components = fields.List(fields.Nested(ComponentSchema), required=True, validate=validate.Length(min=2, max=MAX_COMPONENTS),
                              metadata={"description": "Two or more surfactants with their amounts."})
-    emulsion_type = one_of(EMULSION_TYPES, metadata={"description": "When given, the blend HLB is checked against the range usual for this type."})
+    emulsion_type = enum_field("EmulsionType", request=True, metadata={"description": "When given, the blend HLB is checked against the range usual for this type."})
     strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
 
@@ -37,7 +38,7 @@ class SplitRequestSchema(Schema):
     fixed = fields.List(fields.Nested(FixedSurfactantSchema), validate=validate.Length(max=MAX_COMPONENTS),
                         metadata={"description": "Further surfactants at fixed shares of the blend."})
     total = fields.Nested(AbsoluteAmountSchema, metadata={"description": "Scale the blend to this total mass or volume."})
-    emulsion_type = one_of(EMULSION_TYPES)
+    emulsion_type = enum_field("EmulsionType", request=True)
     strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
 
@@ -46,7 +47,7 @@ class OilComponentSchema(ComponentSchema):
 
 
 class RequiredHlbRequestSchema(Schema):
-    emulsion_type = one_of(EMULSION_TYPES, required=True)
+    emulsion_type = enum_field("EmulsionType", request=True, required=True)
     oil_phase = fields.List(fields.Nested(OilComponentSchema), required=True, validate=validate.Length(min=1, max=MAX_COMPONENTS))
     strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 

@@ -9,6 +9,13 @@ from service.http.schemas.rules import RuleChecks, exactly_one, within_unit_boun
 from service.usecases.measuring import CAPACITY_G, CAPACITY_ML, READABILITY_G, SENSITIVITY_G, SUBDIVISION_ML
 from service.usecases.resolution import DENSITY_RANGE_G_PER_ML
 from service.units import ABSOLUTE_UNITS, AMOUNT_UNITS, DENSITY_UNITS, MASS_UNITS, VOLUME_UNITS
+from service.http.schemas.enums import enum_field
+
+UNIT_ENUMS = {"mass": "MassUnit", "volume": "VolumeUnit", "density": "DensityUnit", "parts": "RelativeUnit", "percent_w_w": "RelativeUnit"}
+
+
+def _unit_enums(units) -> list[str]:
+    return list(dict.fromkeys(UNIT_ENUMS[u.kind] for u in units.values()))
 
 EMULSION_TYPES = ("O/W", "W/O")
 IONIC_CLASSES = ("nonionic", "anionic", "cationic", "amphoteric")
@@ -23,12 +30,22 @@ BATCH_BOUNDS = {"mass": (0.1, 1e6), "volume": (0.1, 1e6)}
 DENSITY_BOUNDS = {"density": DENSITY_RANGE_G_PER_ML}
 
 
+def _ten_digits(x: float, up: bool) -> float:
+    """x to ten significant digits, readable in the spec, rounded inwards (a
+    minimum up, a maximum down) so that a value the schema takes is never
+    refused by the use cases' own check of the canonical bounds."""
+    r = float(f"{x:.10g}")
+    if (up and r < x) or (not up and r > x):
+        r = float(f"{x * (1 + 1e-10 if up else 1 - 1e-10):.10g}")
+    return r
+
+
 def per_unit(units, bounds_by_kind: dict[str, tuple[float, float]]) -> dict[str, tuple[float, float]]:
     """Canonical bounds restated in each unit of the allow-list."""
     out = {}
     for token, unit in units.items():
         low, high = bounds_by_kind[unit.kind]
-        out[token] = (low / unit.to_canonical, high / unit.to_canonical)
+        out[token] = (_ten_digits(low / unit.to_canonical, up=True), _ten_digits(high / unit.to_canonical, up=False))
     return out
 
 
@@ -36,7 +53,7 @@ def quantity(name: str, units, bounds_by_kind: dict[str, tuple[float, float]], w
     """A {value, unit} schema whose value must be plausible for its unit."""
     schema = type(f"{name}Schema", (RuleChecks,), {
         "value": Number(required=True, exclusive_minimum=0, metadata={"description": "A positive, finite number, within the bounds of its unit."}),
-        "unit": one_of(units, required=True, metadata={"description": "A unit from the allow-list; free-text units are never parsed."}),
+        "unit": enum_field(*_unit_enums(units), request=True, required=True, metadata={"description": "A unit from the allow-list; free-text units are never parsed."}),
         "RULES": (within_unit_bounds(code, per_unit(units, bounds_by_kind), what),),
         "__doc__": f"{what[0].upper()}{what[1:]}, as a value and a unit.",
     })

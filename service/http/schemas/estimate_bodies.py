@@ -10,6 +10,7 @@ from service.http.schemas.common import EMULSION_TYPES, IngredientRefSchema, Mas
 from service.http.schemas.fields import ID_PATTERN, Boolean, FullMatch, Number, one_of, text
 from service.http.schemas.rules import Rule, RuleChecks, at_least_one, at_most_one, exactly_one, not_above
 from service.http.schemas.worksheet_bodies import CheckSchema, EquipmentOutSchema, EquipmentSchema, MeasureSchema
+from service.http.schemas.enums import enum_field
 from service.usecases.hlb_series import DEFAULT_AQUEOUS_VEHICLE
 
 METHODS = ("griffin_mass_fraction", "griffin_saponification", "griffin_oxyethylene", "davies")
@@ -114,7 +115,7 @@ class HlbBoundsSchema(RuleChecks):
 
 
 class SeriesPlanRequestSchema(RuleChecks):
-    emulsion_type = one_of(EMULSION_TYPES, required=True)
+    emulsion_type = enum_field("EmulsionType", request=True, required=True)
     pair = fields.List(fields.Nested(IngredientRefSchema), required=True, validate=validate.Length(equal=2))
     hlb_range = fields.Nested(HlbBoundsSchema, metadata={"description": "Default: all the pair reaches."})
     step_hlb = Number(minimum=0.05, maximum=20, metadata={"description": "HLB units between tests."})
@@ -211,7 +212,7 @@ class SeriesEvaluateResultSchema(Schema):
 class DaviesGroupValueSchema(Schema):
     number = fields.Float(required=True)
     source = fields.String(required=True)
-    status = fields.String(required=True)
+    status = enum_field("ValueStatus", required=True)
     recalled_from_memory = fields.Boolean(required=True)
     preferred = fields.Boolean(required=True)
     note = fields.String(required=True, allow_none=True)

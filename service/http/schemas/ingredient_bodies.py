@@ -8,6 +8,7 @@ from registry.model import FUNCTIONS
 from service.http.schemas.responses import CitationSchema, RegistryVersionSchema
 from service.http.schemas.fields import QueryNumber, one_of
 from service.http.schemas.rules import RuleChecks, not_above
+from service.http.schemas.enums import enum_field
 
 ROLES = ("surfactant", "oil_phase", "aqueous_phase", "hydrocolloid")
 IONIC_CLASSES = ("nonionic", "anionic", "cationic", "amphoteric", "not_applicable")
@@ -22,7 +23,7 @@ class IngredientQuerySchema(RuleChecks):
         "description": "Ingredients whose name, a synonym or the id holds this text, ignoring case (e.g. `oleate`)."})
     role = one_of(ROLES)
     ionic_class = one_of(IONIC_CLASSES)
-    function = one_of(FUNCTIONS, metadata={"description": "Ingredients with this function in a formula (e.g. emulsifier)."})
+    function = enum_field("IngredientFunction", request=True, metadata={"description": "Ingredients with this function in a formula (e.g. emulsifier)."})
     hlb_min = QueryNumber(minimum=0, maximum=60, metadata={"description": "Surfactants whose preferred HLB is at least this."})
     hlb_max = QueryNumber(minimum=0, maximum=60, metadata={"description": "Surfactants whose preferred HLB is at most this."})
 
@@ -41,9 +42,9 @@ class ValueRecordSchema(Schema):
     conditions = fields.String(required=True, allow_none=True)
     source = fields.Nested(CitationSchema, required=True)
     locator = fields.String(required=True, allow_none=True)
-    kind = fields.String(required=True)
+    kind = enum_field("ValueKind", required=True)
     method = fields.String(required=True, allow_none=True, metadata={"description": "For a calculated value, the method."})
-    status = fields.String(required=True)
+    status = enum_field("ValueStatus", required=True)
     reviewed_by = fields.String(required=True, allow_none=True)
     reviewed_on = fields.String(required=True, allow_none=True)
     recalled_from_memory = fields.Boolean(required=True)
@@ -85,10 +86,10 @@ class IngredientSummarySchema(Schema):
 
 
 class FunctionsProvenanceSchema(Schema):
-    list = fields.List(fields.String(), required=True)
+    list = fields.List(enum_field("IngredientFunction"), required=True)
     source = fields.Nested(CitationSchema, required=True)
     locator = fields.String(required=True, allow_none=True)
-    status = fields.String(required=True)
+    status = enum_field("ValueStatus", required=True)
     recalled_from_memory = fields.Boolean(required=True)
     reviewed_by = fields.String(required=True, allow_none=True)
     reviewed_on = fields.String(required=True, allow_none=True)

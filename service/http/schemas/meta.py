@@ -3,6 +3,7 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields
 
+from service.http.schemas.enums import enum_field
 from service.http.schemas.responses import RegistryVersionSchema
 
 
@@ -14,7 +15,7 @@ class HealthSchema(Schema):
 class ProblemItemSchema(Schema):
     pointer = fields.String(metadata={"description": "JSON pointer (URI-fragment form) to the offending field of the body."})
     parameter = fields.String(metadata={"description": "The offending query parameter."})
-    rule = fields.String(metadata={"description": "Short name of the rule broken, where there is one."})
+    rule = enum_field("RuleCode", metadata={"description": "The rule broken: one of the schema's, or one of the calculation's refusals."})
     detail = fields.String(required=True)
     suggestions = fields.List(fields.String(), metadata={
         "description": "For an unknown ingredient id (rule known_ingredient): the closest registry ids, best first; may be empty."})

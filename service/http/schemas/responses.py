@@ -6,7 +6,10 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields
 
+from service.http.schemas.enums import enum_field
+
 NullableNumber = lambda **kw: fields.Float(allow_none=True, **kw)  # noqa: E731
+
 NullableString = lambda **kw: fields.String(allow_none=True, **kw)  # noqa: E731
 
 
@@ -26,17 +29,17 @@ class MethodSchema(Schema):
 class ValueUsedSchema(Schema):
     ingredient = NullableString(required=True, metadata={"description": "Registry id, or null for an inline ingredient."})
     name = fields.String(required=True)
-    property = fields.String(required=True, metadata={"description": "hlb, required_hlb_ow, required_hlb_wo or density."})
+    property = enum_field("Property", required=True)
     pointer = fields.String(required=True, metadata={"description": "The request item the value was used for (JSON pointer)."})
     figure = fields.Float(required=True, metadata={"description": "The figure used (the preferred value; the midpoint of a range)."})
     low = fields.Float(required=True)
     high = fields.Float(required=True)
     unit = NullableString(required=True, metadata={"description": "g/mL for density; null for HLB values."})
-    origin = fields.String(required=True, metadata={"description": "registry, or caller (inline or override)."})
+    origin = enum_field("Origin", required=True)
     source = fields.Nested(CitationSchema, allow_none=True, required=True)
     locator = NullableString(required=True)
-    kind = NullableString(required=True, metadata={"description": "primary_literature, handbook, textbook, pharmacopeia, standard, calculated or in_house_measurement; null for caller values."})
-    status = fields.String(required=True, metadata={"description": "unverified, checked_against_source, measured, or caller_supplied."})
+    kind = enum_field("ValueKind", required=True, allow_none=True, metadata={"description": "null for caller values."})
+    status = enum_field("ValueStatus", required=True)
     local = fields.Boolean(required=True, metadata={"description": "true for a value from the pharmacy's site overlay."})
     recalled_from_memory = fields.Boolean(required=True)
     sources_disagree = fields.Boolean(required=True)
@@ -46,7 +49,7 @@ class ValueUsedSchema(Schema):
 
 
 class WarningSchema(Schema):
-    code = fields.String(required=True)
+    code = enum_field("WarningCode", required=True)
     message = fields.String(required=True)
     subject = NullableString(required=True)
 
@@ -104,7 +107,7 @@ class BlendResultSchema(Schema):
 
 class BlendInputsSchema(Schema):
     components = fields.List(fields.Nested(ComponentInputSchema), required=True)
-    emulsion_type = NullableString(required=True)
+    emulsion_type = enum_field("EmulsionType", required=True, allow_none=True)
 
 
 # Proportions for a target
@@ -131,7 +134,7 @@ class SplitResultSchema(Schema):
 class SplitInputsSchema(Schema):
     target_hlb = fields.Float(required=True)
     total = fields.Nested(AmountOutSchema, allow_none=True, required=True)
-    emulsion_type = NullableString(required=True)
+    emulsion_type = enum_field("EmulsionType", required=True, allow_none=True)
 
 
 # Required HLB
@@ -145,12 +148,12 @@ class RequiredHlbResultSchema(Schema):
     required_hlb_unrounded = fields.Float(required=True, metadata={"description": "Before display rounding, to 6 decimals."})
     range = fields.Nested(RangeSchema, required=True, metadata={"description": "What the result spans across every source's values, values flagged doubtful left out."})
     range_with_doubtful = fields.Nested(RangeSchema, required=True, allow_none=True, metadata={"description": "The span with the doubtful values put back; null when none was used."})
-    emulsion_type = fields.String(required=True)
+    emulsion_type = enum_field("EmulsionType", required=True)
     oil_phase_mass_g = NullableNumber(required=True)
 
 
 class RequiredHlbInputsSchema(Schema):
-    emulsion_type = fields.String(required=True)
+    emulsion_type = enum_field("EmulsionType", required=True)
     oil_phase = fields.List(fields.Nested(OilInputSchema), required=True)
 
 

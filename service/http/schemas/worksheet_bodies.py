@@ -13,6 +13,7 @@ from service.http.schemas.common import (
 from service.http.schemas.fields import Boolean, Integer, Number, one_of
 from service.http.schemas.rules import Rule, RuleChecks, at_most_one, exactly_one, requires, share_or_flag
 from service.units import MASS_UNITS, VOLUME_UNITS
+from service.http.schemas.enums import enum_field
 
 PHASES = ("oil", "aqueous", "other")
 MAX_INGREDIENTS = 40
@@ -21,7 +22,7 @@ MAX_INGREDIENTS = 40
 class FormulaIngredientSchema(IngredientRefSchema):
     phase = one_of(PHASES, required=True, metadata={"description": "oil, aqueous, or other (a preservative, an active ingredient)."})
     share = fields.Nested(AmountSchema, metadata={"description": "% w/w of the formula, or an amount for the batch (a mass; a volume for a liquid with a known density). Not with qs."})
-    qs = Boolean(metadata={"description": "true for the one vehicle made up to the batch (q.s.)."})
+    qs = Boolean(metadata={"description": "true for the one vehicle made up to the batch (q.s.). A formula whose shares, emulsifier included, add up to 100 % w/w needs none: its largest share then takes the rounding residue."})
     counts_toward_rhlb = Boolean(metadata={"description": "For an oil-phase ingredient: false leaves it out of the required-HLB mean. Default true."})
 
     RULES = IngredientRefSchema.RULES + (share_or_flag("share", "qs"),)
@@ -101,12 +102,12 @@ class EquipmentSchema(Schema):
 
 
 class OutputUnitsSchema(Schema):
-    mass = one_of(MASS_UNITS, metadata={"description": "Default g."})
-    volume = one_of(VOLUME_UNITS, metadata={"description": "Default mL."})
+    mass = enum_field("MassUnit", request=True, metadata={"description": "Default g."})
+    volume = enum_field("VolumeUnit", request=True, metadata={"description": "Default mL."})
 
 
 class WorksheetRequestSchema(Schema):
-    emulsion_type = one_of(EMULSION_TYPES, required=True)
+    emulsion_type = enum_field("EmulsionType", request=True, required=True)
     batch = fields.Nested(BatchSizeSchema, required=True, metadata={"description": "Batch size, a mass or a volume."})
     ingredients = fields.List(fields.Nested(FormulaIngredientSchema), required=True, validate=validate.Length(min=2, max=MAX_INGREDIENTS))
     emulsifier = fields.Nested(EmulsifierSchema, required=True)
@@ -122,7 +123,7 @@ class RescaleRequestSchema(Schema):
 
 class CandidateRequestSchema(RuleChecks):
     target_hlb = Number(minimum=0, maximum=60)
-    emulsion_type = one_of(EMULSION_TYPES)
+    emulsion_type = enum_field("EmulsionType", request=True)
     oil_phase = fields.List(fields.Nested(OilComponentSchema), validate=validate.Length(min=1, max=30),
                             metadata={"description": "Instead of target_hlb: the oil phase whose required HLB is the target."})
     ionic_classes = fields.List(one_of(IONIC_CLASSES), validate=validate.Length(min=1, max=4), metadata={"description": "Default nonionic only."})
@@ -135,7 +136,7 @@ class CandidateRequestSchema(RuleChecks):
 
 # Answers
 class CheckSchema(Schema):
-    code = fields.String(required=True)
+    code = enum_field("CheckCode", required=True)
     ok = fields.Boolean(required=True)
     message = fields.String(required=True)
 
@@ -233,7 +234,7 @@ class TotalsSchema(Schema):
 
 
 class WorksheetResultSchema(Schema):
-    emulsion_type = fields.String(required=True)
+    emulsion_type = enum_field("EmulsionType", required=True)
     batch_mass_g = fields.Float(required=True)
     batch_volume_ml = fields.Float(required=True, allow_none=True)
     checks_failed = fields.Integer(required=True, metadata={"description": "How many checks failed, the worksheet's and every row's; the printed worksheet opens with a banner when any did."})
@@ -286,7 +287,7 @@ class CandidateResultSchema(Schema):
 
 class CandidateInputsSchema(Schema):
     target_hlb = fields.Float(required=True, allow_none=True)
-    emulsion_type = fields.String(required=True, allow_none=True)
+    emulsion_type = enum_field("EmulsionType", required=True, allow_none=True)
     ionic_classes = fields.List(fields.String(), required=True)
     limit = fields.Integer(required=True)
     include_off_scale_hlb = fields.Boolean(required=True)

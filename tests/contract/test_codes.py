@@ -1,0 +1,66 @@
+"""The code catalogue (service/core/codes.py) and the code base agree: every
+warning, check and refusal code the service can emit is catalogued with its
+meaning, and nothing catalogued is dead. The codes are read from the source
+with Python's ast module, where they are written as literals."""
+from __future__ import annotations
+
+import ast
+from pathlib import Path
+
+from service.core import codes
+from service.http.problems import MESSAGE_RULES
+from service.http.spec import _rule_schemas
+from service.http.schemas.enums import SCHEMA_RULES
+
+SERVICE = Path(__file__).resolve().parents[2] / "service"
+# Chosen by property at run time (resolution.py: KNOWN_RULES).
+DYNAMIC_REFUSALS = {"hlb_known", "required_hlb_known"}
+
+
+def literals() -> dict[str, set[str]]:
+    found = {"check": set(), "warning": set(), "refusal": set()}
+    for path in SERVICE.rglob("*.py"):
+        if path.name == "codes.py":
+            continue
+        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+            if isinstance(node, ast.Call):
+                name = node.func.id if isinstance(node.func, ast.Name) else getattr(node.func, "attr", None)
+                index, kind = {"Check": (0, "check"), "Finding": (0, "warning"), "CalculationError": (1, "refusal"),
+                               "invalid": (1, "refusal"), "at": (1, "refusal")}.get(name, (None, None))
+                if index is not None and len(node.args) > index and isinstance(node.args[index], ast.Constant):
+                    found[kind].add(node.args[index].value)
+            elif isinstance(node, ast.Dict):
+                keys = {k.value: v for k, v in zip(node.keys, node.values) if isinstance(k, ast.Constant)}
+                code = keys.get("code")
+                if isinstance(code, ast.Constant) and isinstance(code.value, str):
+                    found["check" if "ok" in keys else "warning"].add(code.value)
+                rule = keys.get("rule")
+                if isinstance(rule, ast.Constant) and isinstance(rule.value, str):
+                    found["refusal"].add(rule.value)
+            elif isinstance(node, ast.Assign) and any(getattr(t, "id", None) == "PROVENANCE_RULES" for t in node.targets):
+                found["warning"] |= {elt.elts[0].value for elt in node.value.elts}
+    return found
+
+
+def test_every_code_used_is_catalogued():
+    used = literals()
+    assert used["check"] - set(codes.CHECKS) == set()
+    assert used["warning"] - set(codes.WARNINGS) == set()
+    assert (used["refusal"] | DYNAMIC_REFUSALS) - set(codes.REFUSALS) - set(SCHEMA_RULES) - {"target_outside_reachable_range"} == set()
+
+
+def test_nothing_catalogued_is_unused():
+    used = literals()
+    assert set(codes.CHECKS) - used["check"] == set()
+    base_warnings = set(codes.FINDINGS) | set(codes.PROVENANCE_WARNINGS) | set(codes.ANSWER_WARNINGS)
+    assert base_warnings - used["warning"] == set()
+    # InfeasibleTarget sets its rule in its constructor's super() call.
+    assert set(codes.REFUSALS) - used["refusal"] - DYNAMIC_REFUSALS - {"target_outside_reachable_range"} == set()
+
+
+def test_every_schema_rule_is_catalogued():
+    emitted = {r for _, r in MESSAGE_RULES} | {"schema"}
+    emitted |= {rule.code for cls in _rule_schemas().values() for rule in cls.RULES}
+    emitted |= {"finite_number", "minimum", "maximum", "exclusive_minimum", "exclusive_maximum", "pattern"}
+    assert emitted - set(SCHEMA_RULES) == set()
+    assert set(SCHEMA_RULES) & set(codes.REFUSALS) == set(), "a code means one thing"
