@@ -109,11 +109,49 @@ def one_of(choices, **kwargs) -> fields.String:
     return fields.String(validate=validate.OneOf(list(choices)), **kwargs)
 
 
+class RuleMessage(str):
+    """A validation message that names the rule it enforces, so the problem's
+    error item can carry `rule` beside the detail (service/http/problems.py)."""
+
+    rule: str
+
+    def __new__(cls, rule: str, text: str):
+        message = super().__new__(cls, text)
+        message.rule = rule
+        return message
+
+
+# C0 (tab, newline and CR included), DEL and C1: none belongs in a name or a
+# search, and each could break a printed worksheet or a log line. The spec
+# publishes the same set as a JSON Schema pattern, in backslash-u escapes that
+# ECMA-262 and Python's re read alike.
+TEXT_PATTERN = r"^[^\u0000-\u001f\u007f-\u009f]*$"
+_CONTROL = re.compile(r"[\x00-\x1f\x7f-\x9f]")
+# A lone surrogate (JSON's "\ud800" unpaired) is no character at all: it cannot
+# be encoded as UTF-8, so an answer echoing it could not be sent.
+_SURROGATE = re.compile(r"[\ud800-\udfff]")
+
+
+def plain_text(value: str) -> str:
+    """Refuse lone surrogates and control characters, naming the rule broken;
+    the message gives the code point, never the character itself."""
+    found = _SURROGATE.search(value)
+    if found:
+        raise ValidationError(RuleMessage("no_lone_surrogates", f"Must not hold a lone surrogate (U+{ord(found.group()):04X} at offset {found.start()})."))
+    found = _CONTROL.search(value)
+    if found:
+        raise ValidationError(RuleMessage("no_control_characters",
+                                          f"Must not hold control characters (U+{ord(found.group()):04X} at offset {found.start()}; tabs and newlines included)."))
+    return value
+
+
 def text(max_length: int = 120, **kwargs) -> fields.String:
-    return fields.String(validate=validate.Length(min=1, max=max_length), **kwargs)
+    """Free text from the caller (a name): printable, 1 to max_length characters."""
+    metadata = {"pattern": TEXT_PATTERN, **kwargs.pop("metadata", {})}
+    return fields.String(validate=[validate.Length(min=1, max=max_length), plain_text], metadata=metadata, **kwargs)
 
 
-__all__ = ["Boolean", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Integer", "Number", "QueryNumber", "ingredient_id", "one_of", "text"]
+__all__ = ["Boolean", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Integer", "Number", "QueryNumber", "RuleMessage", "TEXT_PATTERN", "ingredient_id", "one_of", "plain_text", "text"]
 
 
 class QueryNumber(Number):

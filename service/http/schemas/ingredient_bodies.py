@@ -2,11 +2,11 @@
 provenance, and the bibliography."""
 from __future__ import annotations
 
-from marshmallow import Schema, ValidationError, fields, validate, validates_schema
+from marshmallow import Schema, ValidationError, fields, validates_schema
 
 from registry.model import FUNCTIONS
 from service.http.schemas.responses import CitationSchema, RegistryVersionSchema
-from service.http.schemas.fields import QueryNumber, one_of
+from service.http.schemas.fields import QueryNumber, one_of, text
 
 ROLES = ("surfactant", "oil_phase", "aqueous_phase", "hydrocolloid")
 IONIC_CLASSES = ("nonionic", "anionic", "cationic", "amphoteric", "not_applicable")
@@ -17,7 +17,7 @@ MAX_SEARCH_LENGTH = 120
 
 
 class IngredientQuerySchema(Schema):
-    q = fields.String(validate=validate.Length(min=1, max=MAX_SEARCH_LENGTH), metadata={
+    q = text(MAX_SEARCH_LENGTH, metadata={
         "description": "Ingredients whose name, a synonym or the id holds this text, ignoring case (e.g. `oleate`)."})
     role = one_of(ROLES)
     ionic_class = one_of(IONIC_CLASSES)
