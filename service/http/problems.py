@@ -74,12 +74,18 @@ def _encodable(node):
     return node
 
 
+def _capped(errors: list) -> dict:
+    """The problem's error members: the first MAX_ERRORS items, and the count
+    of the rest when there are more."""
+    if len(errors) <= MAX_ERRORS:
+        return {"errors": errors}
+    return {"errors": errors[:MAX_ERRORS], "errors_total": len(errors), "errors_omitted": len(errors) - MAX_ERRORS}
+
+
 def problem_response(status: int, title: str, detail: str, *, type_: str = "about:blank", errors=None, headers=None, **extra) -> Response:
     body = {"type": type_, "title": title, "status": status, "detail": detail}
     if errors is not None:
-        body["errors"] = errors[:MAX_ERRORS]
-        if len(errors) > MAX_ERRORS:
-            body.update(errors_total=len(errors), errors_omitted=len(errors) - MAX_ERRORS)
+        body.update(_capped(errors))
     body.update(extra)
     response = Response(json.dumps(_encodable(body), indent=2) + "\n", status=status, mimetype=PROBLEM_TYPE)
     for name, value in (headers or {}).items():
@@ -90,14 +96,18 @@ def problem_response(status: int, title: str, detail: str, *, type_: str = "abou
 
 def validation_problem(messages, *, location: str = "body") -> ApiProblem:
     faults = list(_faults(messages))
+    # Only the items that will be sent are built; the rest are only counted.
+    shown = faults[:MAX_ERRORS]
     if location == "query":
         # A query parameter is named as sent (printable), not as a pointer.
-        errors = [_item({"parameter": printable(str(p[0])) if p else ""}, m) for p, m in faults]
+        errors = [_item({"parameter": printable(str(p[0])) if p else ""}, m) for p, m in shown]
     else:
-        errors = [_item({"pointer": pointer(p)}, m) for p, m in faults]
+        errors = [_item({"pointer": pointer(p)}, m) for p, m in shown]
     first = errors[0]
     where = first.get("pointer") or first.get("parameter")
-    return ApiProblem(422, "Invalid input", f"{len(errors)} input error(s); first at {where}: {first['detail']}", type_=TYPE_INVALID_INPUT, errors=errors)
+    counts = {} if len(faults) <= MAX_ERRORS else {"errors_total": len(faults), "errors_omitted": len(faults) - MAX_ERRORS}
+    return ApiProblem(422, "Invalid input", f"{len(faults)} input error(s); first at {where}: {first['detail']}", type_=TYPE_INVALID_INPUT,
+                      errors=errors, **counts)
 
 
 def register_error_handlers(app: Flask) -> None:

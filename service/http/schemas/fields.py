@@ -105,6 +105,31 @@ def ingredient_id(**kwargs) -> fields.String:
     )
 
 
+class BoundedList(fields.List):
+    """A JSON array whose length is checked before any item is loaded:
+    marshmallow's List loads every item and only then runs validate.Length,
+    so a body of thousands of bad items cost a full validation of each, and
+    an error per fault, before the count alone refused it. The same
+    validate.Length stays among the validators, for apispec to publish it as
+    minItems and maxItems; by then it always passes."""
+
+    def __init__(self, cls_or_instance, *, min_items: int | None = None, max_items: int | None = None,
+                 exact_items: int | None = None, **kwargs):
+        self.length = validate.Length(min=min_items, max=max_items, equal=exact_items)
+        super().__init__(cls_or_instance, validate=self.length, **kwargs)
+
+    def _deserialize(self, value, attr, data, **kwargs):
+        if isinstance(value, list):
+            n, length = len(value), self.length
+            if length.equal is not None and n != length.equal:
+                raise ValidationError(RuleMessage("list_length", f"Must hold exactly {length.equal} items (holds {n})."))
+            if length.min is not None and n < length.min:
+                raise ValidationError(RuleMessage("list_length", f"Must hold at least {length.min} items (holds {n})."))
+            if length.max is not None and n > length.max:
+                raise ValidationError(RuleMessage("list_length", f"Must hold at most {length.max} items (holds {n}); nothing in it was checked."))
+        return super()._deserialize(value, attr, data, **kwargs)
+
+
 def one_of(choices, **kwargs) -> fields.String:
     return fields.String(validate=validate.OneOf(list(choices)), **kwargs)
 
@@ -151,7 +176,7 @@ def text(max_length: int = 120, **kwargs) -> fields.String:
     return fields.String(validate=[validate.Length(min=1, max=max_length), plain_text], metadata=metadata, **kwargs)
 
 
-__all__ = ["Boolean", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Integer", "Number", "QueryNumber", "RuleMessage", "TEXT_PATTERN", "ingredient_id", "one_of", "plain_text", "text"]
+__all__ = ["Boolean", "BoundedList", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Integer", "Number", "QueryNumber", "RuleMessage", "TEXT_PATTERN", "ingredient_id", "one_of", "plain_text", "text"]
 
 
 class QueryNumber(Number):

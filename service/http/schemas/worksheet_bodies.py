@@ -2,12 +2,12 @@
 rescaling of a worksheet."""
 from __future__ import annotations
 
-from marshmallow import Schema, ValidationError, fields, validate, validates_schema
+from marshmallow import Schema, ValidationError, fields, validates_schema
 
 from service.http.schemas.responses import AmountOutSchema, RangeSchema, answer
 from service.http.schemas.calculation_requests import OilComponentSchema
 from service.http.schemas.common import EMULSION_TYPES, IONIC_CLASSES, AmountSchema, DensitySchema, IngredientRefSchema, MassSchema
-from service.http.schemas.fields import Boolean, Integer, Number, one_of
+from service.http.schemas.fields import Boolean, BoundedList, Integer, Number, one_of
 from service.units import ABSOLUTE_UNITS, MASS_UNITS, VOLUME_UNITS
 
 PHASES = ("oil", "aqueous", "other")
@@ -40,16 +40,16 @@ OFF_SCALE_DESCRIPTION = "true also considers surfactants with an HLB above 20, o
 
 
 class ProposeSchema(Schema):
-    ionic_classes = fields.List(one_of(IONIC_CLASSES), validate=validate.Length(min=1, max=4),
+    ionic_classes = BoundedList(one_of(IONIC_CLASSES), min_items=1, max_items=4,
                                 metadata={"description": "Allowed ionic classes of the pair's members. Default nonionic only."})
     include_off_scale_hlb = Boolean(metadata={"description": OFF_SCALE_DESCRIPTION})
 
 
 class EmulsifierSchema(Schema):
-    pair = fields.List(fields.Nested(IngredientRefSchema), validate=validate.Length(equal=2),
+    pair = BoundedList(fields.Nested(IngredientRefSchema), exact_items=2,
                        metadata={"description": "The two surfactants whose proportions are solved for the oil phase's required HLB."})
     propose = fields.Nested(ProposeSchema, metadata={"description": "Let the service choose the top-ranked candidate pair."})
-    fixed = fields.List(fields.Nested(FixedEmulsifierSchema), validate=validate.Length(max=10),
+    fixed = BoundedList(fields.Nested(FixedEmulsifierSchema), max_items=10,
                         metadata={"description": "Surfactants at fixed % w/w of the formula (alone, or beside the pair)."})
     target_hlb = Number(minimum=0, maximum=60, metadata={"description": "Default: the oil phase's required HLB."})
     total_percent_w_w = Number(exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "The whole emulsifier system, % w/w of the formula."})
@@ -93,7 +93,7 @@ class WorksheetBalanceSchema(Schema):
 
 class EquipmentSchema(Schema):
     balance = fields.Nested(WorksheetBalanceSchema)
-    graduates = fields.List(fields.Nested(GraduateSchema), validate=validate.Length(max=20),
+    graduates = BoundedList(fields.Nested(GraduateSchema), max_items=20,
                             metadata={"description": "Graduates at hand. Default cylindrical 10, 25, 50, 100, 250, 500 and 1000 mL."})
 
 
@@ -105,7 +105,7 @@ class OutputUnitsSchema(Schema):
 class WorksheetRequestSchema(Schema):
     emulsion_type = one_of(EMULSION_TYPES, required=True)
     batch = fields.Nested(BatchSizeSchema, required=True, metadata={"description": "Batch size, a mass or a volume."})
-    ingredients = fields.List(fields.Nested(FormulaIngredientSchema), required=True, validate=validate.Length(min=2, max=MAX_INGREDIENTS))
+    ingredients = BoundedList(fields.Nested(FormulaIngredientSchema), required=True, min_items=2, max_items=MAX_INGREDIENTS)
     emulsifier = fields.Nested(EmulsifierSchema, required=True)
     equipment = fields.Nested(EquipmentSchema)
     output_units = fields.Nested(OutputUnitsSchema)
@@ -120,9 +120,9 @@ class RescaleRequestSchema(Schema):
 class CandidateRequestSchema(Schema):
     target_hlb = Number(minimum=0, maximum=60)
     emulsion_type = one_of(EMULSION_TYPES)
-    oil_phase = fields.List(fields.Nested(OilComponentSchema), validate=validate.Length(min=1, max=30),
+    oil_phase = BoundedList(fields.Nested(OilComponentSchema), min_items=1, max_items=30,
                             metadata={"description": "Instead of target_hlb: the oil phase whose required HLB is the target."})
-    ionic_classes = fields.List(one_of(IONIC_CLASSES), validate=validate.Length(min=1, max=4), metadata={"description": "Default nonionic only."})
+    ionic_classes = BoundedList(one_of(IONIC_CLASSES), min_items=1, max_items=4, metadata={"description": "Default nonionic only."})
     limit = Integer(minimum=1, maximum=50, metadata={"description": "Default 10."})
     include_off_scale_hlb = Boolean(metadata={"description": OFF_SCALE_DESCRIPTION})
     strict = Boolean()
