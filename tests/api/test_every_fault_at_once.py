@@ -76,3 +76,14 @@ def test_every_unknown_davies_group(client):
     assert r.status_code == 422
     assert rules(r) == [(f"#/groups/{i}/group", "known_group") for i in range(3)]
     assert problem_pointers(r) == ["#/groups/0/group", "#/groups/1/group", "#/groups/2/group"]
+
+
+def test_both_densities_of_the_minimum_estimate(client):
+    sheet = copy.deepcopy(LOTION)
+    sheet["emulsifier"] = {"pair": LOTION["emulsifier"]["pair"],
+                           "minimum_estimate": {"surfactant_density": {"value": 900, "unit": "g/mL"},
+                                                "dispersed_phase_density": {"value": 0.001, "unit": "g/mL"}}}
+    r = client.post(SHEET, json=sheet)
+    assert r.status_code == 422
+    assert rules(r) == [("#/emulsifier/minimum_estimate/surfactant_density/value", "plausible_density"),
+                        ("#/emulsifier/minimum_estimate/dispersed_phase_density/value", "plausible_density")]

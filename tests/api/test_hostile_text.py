@@ -84,3 +84,11 @@ def test_a_hostile_path_id_is_a_404_whose_detail_is_printable(client, path_id):
     problem_pointers(r)
     detail = r.get_json()["detail"]
     assert not any(ord(c) < 0x20 or 0x7F <= ord(c) <= 0x9F for c in detail)
+
+
+def test_a_duplicate_hostile_key_is_a_400_that_can_be_encoded(client):
+    # The strict parser names the duplicate key; the problem writes its surrogate as \ud800.
+    r = post_text(client, BLEND, '{"\\ud800\\u0001": 1, "\\ud800\\u0001": 2}')
+    assert r.status_code == 400
+    problem_pointers(r)
+    assert "\\ud800\\u0001" in r.get_json()["detail"]
