@@ -4,10 +4,25 @@ input is shaped, or its JSON pointer) and the rule broken; only service/http/pro
 turns them into problem+json with a status."""
 from __future__ import annotations
 
+import re
+
+# Control characters (C0, DEL, C1) and lone surrogates: what an answer must
+# never carry raw. A surrogate cannot be encoded as UTF-8 at all, and a
+# control character in a pointer or a detail could break a log line.
+_UNPRINTABLE = re.compile(r"[\x00-\x1f\x7f-\x9f\ud800-\udfff]")
+
+
+def printable(text: str) -> str:
+    """`text` with each control character and lone surrogate written as a
+    visible \\uXXXX escape, so that what the caller sent can be echoed."""
+    return _UNPRINTABLE.sub(lambda m: f"\\u{ord(m.group()):04x}", text)
+
 
 def pointer(path) -> str:
-    """A JSON pointer in the URI-fragment form RFC 9457's examples use."""
-    return "#/" + "/".join(str(p).replace("~", "~0").replace("/", "~1") for p in path)
+    """A JSON pointer in the URI-fragment form RFC 9457's examples use. A key
+    the caller sent (an unknown member) is echoed through printable(), so a
+    pointer is always encodable."""
+    return "#/" + "/".join(printable(str(p)).replace("~", "~0").replace("/", "~1") for p in path)
 
 
 class CalculationError(ValueError):

@@ -11,7 +11,7 @@ from marshmallow import ValidationError
 from werkzeug.exceptions import HTTPException
 
 # pointer is re-exported: the HTTP layer's own faults use it too.
-from service.core.errors import CalculationError, InvalidInput, UnverifiedValuesRefused, pointer
+from service.core.errors import CalculationError, InvalidInput, UnverifiedValuesRefused, pointer, printable
 
 PROBLEM_TYPE = "application/problem+json"
 log = logging.getLogger("service")
@@ -51,30 +51,59 @@ def rule_of(message) -> str:
     return next((r for prefix, r in MESSAGE_RULES if text.startswith(prefix)), "schema")
 
 
-def flatten_messages(messages, path=()) -> list[dict]:
-    """marshmallow's nested messages as a flat list of {pointer, rule, detail}."""
-    out = []
+# At most this many error items in one problem: a body of thousands of bad
+# items is answered in a few kilobytes, and the count of the rest is given
+# (errors_total, errors_omitted), not each of them.
+MAX_ERRORS = 50
+
+
+def _faults(messages, path=()):
+    """(path, message) for each of marshmallow's nested messages, in order."""
     if isinstance(messages, dict):
         for key, value in messages.items():
-            sub = path if key == "_schema" else path + (key,)
-            out.extend(flatten_messages(value, sub))
+            yield from _faults(value, path if key == "_schema" else path + (key,))
     elif isinstance(messages, (list, tuple)):
         for item in messages:
             if isinstance(item, (dict, list, tuple)):
-                out.extend(flatten_messages(item, path))
+                yield from _faults(item, path)
             else:
-                out.append({"pointer": pointer(path), "rule": rule_of(item), "detail": str(item)})
+                yield path, item
     else:
-        out.append({"pointer": pointer(path), "rule": rule_of(messages), "detail": str(messages)})
-    return out
+        yield path, messages
+
+
+def _item(where: dict, message) -> dict:
+    """One error item: where, the rule where the message names one, the detail."""
+    return {**where, "rule": rule_of(message), "detail": str(message)}
+
+
+def _encodable(node):
+    """The problem body with every string made printable: a last guard, so
+    that nothing echoed from the request (a lone surrogate most of all) can
+    turn a 4xx into a 500 when the body is encoded."""
+    if isinstance(node, str):
+        return printable(node)
+    if isinstance(node, dict):
+        return {_encodable(k): _encodable(v) for k, v in node.items()}
+    if isinstance(node, (list, tuple)):
+        return [_encodable(v) for v in node]
+    return node
+
+
+def _capped(errors: list) -> dict:
+    """The problem's error members: the first MAX_ERRORS items, and the count
+    of the rest when there are more."""
+    if len(errors) <= MAX_ERRORS:
+        return {"errors": errors}
+    return {"errors": errors[:MAX_ERRORS], "errors_total": len(errors), "errors_omitted": len(errors) - MAX_ERRORS}
 
 
 def problem_response(status: int, title: str, detail: str, *, type_: str = "about:blank", errors=None, headers=None, **extra) -> Response:
     body = {"type": type_, "title": title, "status": status, "detail": detail}
     if errors is not None:
-        body["errors"] = errors
+        body.update(_capped(errors))
     body.update(extra)
-    response = Response(json.dumps(body, indent=2) + "\n", status=status, mimetype=PROBLEM_TYPE)
+    response = Response(json.dumps(_encodable(body), indent=2) + "\n", status=status, mimetype=PROBLEM_TYPE)
     for name, value in (headers or {}).items():
         if name.lower() != "content-type":
             response.headers[name] = value
@@ -82,12 +111,19 @@ def problem_response(status: int, title: str, detail: str, *, type_: str = "abou
 
 
 def validation_problem(messages, *, location: str = "body") -> ApiProblem:
-    errors = flatten_messages(messages)
+    faults = list(_faults(messages))
+    # Only the items that will be sent are built; the rest are only counted.
+    shown = faults[:MAX_ERRORS]
     if location == "query":
-        errors = [{"parameter": e["pointer"][2:].split("/")[0], "rule": e["rule"], "detail": e["detail"]} for e in errors]
+        # A query parameter is named as sent (printable), not as a pointer.
+        errors = [_item({"parameter": printable(str(p[0])) if p else ""}, m) for p, m in shown]
+    else:
+        errors = [_item({"pointer": pointer(p)}, m) for p, m in shown]
     first = errors[0]
     where = first.get("pointer") or first.get("parameter")
-    return ApiProblem(422, "Invalid input", f"{len(errors)} input error(s); first at {where}: {first['detail']}", type_=TYPE_INVALID_INPUT, errors=errors)
+    counts = {} if len(faults) <= MAX_ERRORS else {"errors_total": len(faults), "errors_omitted": len(faults) - MAX_ERRORS}
+    return ApiProblem(422, "Invalid input", f"{len(faults)} input error(s); first at {where}: {first['detail']}", type_=TYPE_INVALID_INPUT,
+                      errors=errors, **counts)
 
 
 def register_error_handlers(app: Flask) -> None:

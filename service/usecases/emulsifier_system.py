@@ -17,7 +17,7 @@ from service.usecases.answers import UNPUBLISHED_METHOD, finding_warnings, hlb_d
 from service.usecases.measuring import Row, row_density
 from service.usecases.pairs import DEFAULT_IONIC, oil_chain, ranked
 from service.usecases.provenance import ValuesUsed
-from service.usecases.resolution import (DEFAULT_ESTIMATE_MARGIN_PERCENT, checked_density, invalid, required_value, resolve,
+from service.usecases.resolution import (DEFAULT_ESTIMATE_MARGIN_PERCENT, Faults, checked_density, invalid, required_value, resolve,
                                          usual_emulsifier_high_percent)
 
 ESTIMATE = ("emulsifier", "minimum_estimate")
@@ -162,7 +162,10 @@ def _minimum_total(f: Formula, rhlb, pair, pair_hlb, target: float) -> tuple[flo
     and the basis as the answer states it."""
     spec = f.spec["minimum_estimate"]
     margin = spec.get("margin_percent", DEFAULT_ESTIMATE_MARGIN_PERCENT) / 100.0
-    rho_s, rho_d = _surfactant_density(f, pair, pair_hlb, target), _dispersed_density(f)
+    # Both densities looked up before either is refused, so that both faults are named at once.
+    faults = Faults()
+    rho_s, rho_d = faults.run(_surfactant_density, f, pair, pair_hlb, target), faults.run(_dispersed_density, f)
+    faults.raise_any()
     # On the required HLB as printed (its domain checked by the core).
     try:
         constant_g = constant_part(rho_s, rho_d, hlb_display(rhlb.required_hlb.figure))

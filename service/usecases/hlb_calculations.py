@@ -22,11 +22,12 @@ from service.usecases.resolution import (
     amount,
     amount_densities,
     check_references,
+    Faults,
     checked_density,
     densities_for,
+    density_given,
     enforce_strict,
     hlb_ranges,
-    invalid,
     required_value,
     resolve,
     usual_emulsifier_high_percent,
@@ -52,9 +53,11 @@ def blend(data: dict, registry: Registry, strict: bool = False) -> dict:
     components = data["components"]
     items = [resolve(c, ("components", i), registry) for i, c in enumerate(components)]
     values_used = ValuesUsed()
-    hlbs = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
+    faults = Faults()
+    hlbs = faults.each(lambda it: required_value(it, "hlb", "hlb", registry, values_used, "HLB"), items)
     amounts = [amount(c["amount"]) for c in components]
-    densities = amount_densities(items, amounts, registry, values_used, strict)
+    densities = amount_densities(items, amounts, registry, values_used, strict, faults)
+    faults.raise_any()
     enforce_strict(values_used, strict)
     result = blend_hlb(hlbs, amounts, densities)
     emulsion_type = data.get("emulsion_type")
@@ -77,7 +80,7 @@ def _fixed_fractions(fixed: list[dict], total: dict | None) -> list[float]:
     """Fixed shares as fractions of the blend: % w/w of the blend, or masses
     of a total given as a mass."""
     total_kind, total_value = to_canonical(total["value"], total["unit"]) if total else (None, None)
-    out = []
+    out, faults = [], Faults()
     for i, f in enumerate(fixed):
         kind, value = to_canonical(f["amount"]["value"], f["amount"]["unit"])
         if kind == "percent_w_w":
@@ -85,8 +88,9 @@ def _fixed_fractions(fixed: list[dict], total: dict | None) -> list[float]:
         elif kind == "mass" and total_kind == "mass":
             out.append(value / total_value)
         else:
-            raise invalid(("fixed", i, "amount", "unit"), "fixed_share_basis",
-                          "a fixed surfactant's share is given as % w/w of the blend, or as a mass when 'total' is a mass")
+            faults.add(("fixed", i, "amount", "unit"), "fixed_share_basis",
+                       "a fixed surfactant's share is given as % w/w of the blend, or as a mass when 'total' is a mass")
+    faults.raise_any()
     return out
 
 
@@ -97,26 +101,30 @@ def split(data: dict, registry: Registry, strict: bool = False) -> dict:
     fixed = data.get("fixed", [])
     fixed_items = [resolve(f, ("fixed", i), registry) for i, f in enumerate(fixed)]
     items = pair + fixed_items
-    hlbs = [required_value(it, "hlb", "hlb", registry, values_used, "HLB") for it in items]
+    faults = Faults()
+    hlbs = faults.each(lambda it: required_value(it, "hlb", "hlb", registry, values_used, "HLB"), items)
     total = data.get("total")
-    fixed_fractions = _fixed_fractions(fixed, total)
+    fixed_fractions = faults.run(_fixed_fractions, fixed, total)
+    total_kind, total_value = to_canonical(total["value"], total["unit"]) if total else (None, None)
+    densities: list[float | None] = [None] * len(items)
+    if total is not None:
+        # Looked up before the split is solved, so that every missing or
+        # implausible density is named with the request's other faults.
+        densities = densities_for(items, [total_kind == "volume"] * len(items), registry, values_used, strict, faults)
+        for it, d in zip(items, densities):
+            if total_kind == "volume" and d is None and not density_given(it):
+                faults.add(it.path, "density_needed_for_volume",
+                           f"a total given as a volume needs the density of every surfactant; none is known for {it.label}: give it with 'density'")
+    faults.raise_any()
     target = data["target_hlb"]
     solved = split_for_target(target, hlbs[:2], list(zip(fixed_fractions, hlbs[2:])))
 
     total_mass = total_volume = None
-    densities: list[float | None] = [None] * len(items)
-    if total is not None:
-        kind, value = to_canonical(total["value"], total["unit"])
-        densities = densities_for(items, [kind == "volume"] * len(items), registry, values_used, strict)
-        if kind == "mass":
-            total_mass = value
-        else:
-            missing = [i for i, d in enumerate(densities) if d is None]
-            if missing:
-                it = items[missing[0]]
-                raise invalid(it.path, "density_needed_for_volume", f"a total given as a volume needs the density of every surfactant; none is known for {it.label}: give it with 'density'")
-            total_volume = value
-            total_mass = total_mass_from_volume(value, solved.fractions, densities)
+    if total_kind == "mass":
+        total_mass = total_value
+    elif total_kind is not None:
+        total_volume = total_value
+        total_mass = total_mass_from_volume(total_value, solved.fractions, densities)
     enforce_strict(values_used, strict)
     surfactants = []
     for i, (it, fraction, h, d) in enumerate(zip(items, solved.fractions, hlbs, densities)):

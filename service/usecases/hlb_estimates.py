@@ -18,7 +18,7 @@ from service.core.estimates import (
     griffin_saponification,
 )
 from service.usecases.provenance import ValueUsed, ValuesUsed, figures_differ
-from service.usecases.resolution import enforce_strict, invalid
+from service.usecases.resolution import Faults, enforce_strict, invalid
 
 MAX_MOLAR_MASS = 1e6
 
@@ -47,11 +47,13 @@ def _molar(part: dict, path: tuple) -> tuple[float, set[str]]:
 
 
 def _group_values(data: dict, registry: Registry) -> tuple[list[dict], ValuesUsed, list[tuple[float, float]]]:
-    contributions, values_used, terms = [], ValuesUsed(), []
+    contributions, values_used, terms, faults = [], ValuesUsed(), [], Faults()
     for i, g in enumerate(data["groups"]):
         group = registry.davies_groups.get(g["group"])
         if group is None:
-            raise invalid(("groups", i, "group"), "known_group", f"no Davies group '{g['group']}'; GET /v1/davies-groups lists them")
+            # Every unknown group is named, not the first alone.
+            faults.add(("groups", i, "group"), "known_group", f"no Davies group '{g['group']}'; GET /v1/davies-groups lists them")
+            continue
         record = next((r for r in group.values if r.preferred and not r.retired), group.values[0])
         current = [r for r in group.values if not r.retired]
         values_used.add(ValueUsed.from_registry(
@@ -61,6 +63,7 @@ def _group_values(data: dict, registry: Registry) -> tuple[list[dict], ValuesUse
         contributions.append({"group": group.id, "formula": group.formula, "number": record.figure, "count": g["count"],
                               "contribution": record.figure * g["count"]})
         terms.append((record.figure, g["count"]))
+    faults.raise_any()
     return contributions, values_used, terms
 
 
@@ -72,8 +75,10 @@ def estimate(data: dict, registry: Registry, strict: bool = False) -> dict:
     if method.startswith("griffin"):
         elements: set[str] = set()
         if method == "griffin_mass_fraction":
-            mh, eh = _molar(data["hydrophile"], ("hydrophile",))
-            m, em = _molar(data["molecule"], ("molecule",))
+            faults = Faults()
+            hydrophile, molecule = faults.run(_molar, data["hydrophile"], ("hydrophile",)), faults.run(_molar, data["molecule"], ("molecule",))
+            faults.raise_any()
+            (mh, eh), (m, em) = hydrophile, molecule
             elements = eh | em
             molar = {"hydrophile_g_per_mol": mh, "molecule_g_per_mol": m,
                      "computed_from_formulas": "formula" in data["hydrophile"] or "formula" in data["molecule"]}

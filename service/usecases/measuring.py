@@ -11,7 +11,7 @@ from registry import Registry
 from service.core.aliquot import aliquot_plan
 from service.core.batch import BatchRow
 from service.core.measure import Balance, Check, Graduate, choose_graduate, rounding_check, round_to, weighing_checks
-from service.usecases.resolution import BOUND_SLACK, DEFAULT_ERROR_PERCENT, DEFAULT_SENSITIVITY_G, Resolved, density_value, invalid
+from service.usecases.resolution import BOUND_SLACK, DEFAULT_ERROR_PERCENT, DEFAULT_SENSITIVITY_G, Faults, Resolved, density_value, invalid
 from service.units import to_canonical
 from service.usecases.provenance import ValuesUsed
 
@@ -137,26 +137,29 @@ def equipment_from(data: dict) -> tuple[Balance, tuple[Graduate, ...], list[str]
         defaults.append("balance readability 10 mg")
     if "capacity" not in balance:
         defaults.append(f"balance capacity {DEFAULT_CAPACITY_G:g} g (Class A prescription balance)")
-    b = Balance(
-        sensitivity_g=_value(balance["sensitivity"], ("equipment", "balance", "sensitivity"), SENSITIVITY_G, "g")
-        if "sensitivity" in balance else DEFAULT_SENSITIVITY_G,
-        acceptable_error_percent=balance.get("acceptable_error_percent", DEFAULT_ERROR_PERCENT),
-        readability_g=_value(balance["readability"], ("equipment", "balance", "readability"), READABILITY_G, "g")
-        if "readability" in balance else DEFAULT_READABILITY_G,
-        capacity_g=_value(balance["capacity"], ("equipment", "balance", "capacity"), CAPACITY_G, "g")
-        if "capacity" in balance else DEFAULT_CAPACITY_G,
-    )
+    # Every implausible figure is refused with the others (faults.run gives None for each).
+    faults = Faults()
+
+    def given(key: str, bounds: tuple[float, float], default: float) -> float | None:
+        return faults.run(_value, balance[key], ("equipment", "balance", key), bounds, "g") if key in balance else default
+
+    sensitivity_g, readability_g = given("sensitivity", SENSITIVITY_G, DEFAULT_SENSITIVITY_G), given("readability", READABILITY_G, DEFAULT_READABILITY_G)
+    capacity_g = given("capacity", CAPACITY_G, DEFAULT_CAPACITY_G)
     if "graduates" in data:
         graduates = []
         for i, g in enumerate(data["graduates"]):
             path = ("equipment", "graduates", i)
-            capacity = _value(g["capacity"], path + ("capacity",), CAPACITY_ML, "mL")
-            subdivision = (_value(g["subdivision"], path + ("subdivision",), SUBDIVISION_ML, "mL")
-                           if "subdivision" in g else capacity / DEFAULT_SUBDIVISIONS)
-            graduates.append(Graduate(capacity, min(subdivision, capacity), g.get("conical", False)))
+            capacity = faults.run(_value, g["capacity"], path + ("capacity",), CAPACITY_ML, "mL")
+            subdivision = (faults.run(_value, g["subdivision"], path + ("subdivision",), SUBDIVISION_ML, "mL") if "subdivision" in g
+                           else None if capacity is None else capacity / DEFAULT_SUBDIVISIONS)
+            if capacity is not None and subdivision is not None:
+                graduates.append(Graduate(capacity, min(subdivision, capacity), g.get("conical", False)))
     else:
         defaults.append("cylindrical graduates of 10, 25, 50, 100, 250, 500 and 1000 mL, each divided into 50")
         graduates = [Graduate(c, c / DEFAULT_SUBDIVISIONS) for c in DEFAULT_GRADUATES_ML]
+    faults.raise_any()
+    b = Balance(sensitivity_g=sensitivity_g, acceptable_error_percent=balance.get("acceptable_error_percent", DEFAULT_ERROR_PERCENT),
+                readability_g=readability_g, capacity_g=capacity_g)
     return b, tuple(sorted(graduates, key=lambda g: g.capacity_ml)), defaults
 
 

@@ -31,6 +31,41 @@ def invalid(path: tuple, rule: str, detail: str) -> InvalidInput:
     return InvalidInput.at(path, rule, detail)
 
 
+def refused(faults: list[dict]) -> InvalidInput:
+    """One InvalidInput for several faults, summed up by the first."""
+    first = faults[0]
+    return InvalidInput(faults, f"{len(faults)} input fault(s); first at {first['pointer']}: {first['detail']}")
+
+
+class Faults:
+    """The faults of one request, gathered across its items and steps so that
+    the caller is told of every one in a single answer, not one per round
+    trip. A step that fails gives None and the work goes on; raise_any()
+    then refuses them all together, before anything is computed from the Nones."""
+
+    def __init__(self):
+        self.found: list[dict] = []
+
+    def add(self, path: tuple, rule: str, detail: str) -> None:
+        self.found.extend(invalid(path, rule, detail).faults)
+
+    def run(self, fn, *args):
+        """fn(*args), or None with its faults kept when it refuses the input."""
+        try:
+            return fn(*args)
+        except InvalidInput as exc:
+            self.found.extend(exc.faults)
+            return None
+
+    def each(self, fn, items) -> list:
+        """fn(item) for every item, each fault kept and the others still done."""
+        return [self.run(fn, item) for item in items]
+
+    def raise_any(self) -> None:
+        if self.found:
+            raise refused(self.found)
+
+
 @dataclass
 class Resolved:
     """An ingredient named in a request, with the values it brings."""
@@ -220,26 +255,48 @@ def hlb_ranges(registry: Registry) -> dict[str, tuple[float, float]]:
 
 
 def densities_for(items: Sequence[Resolved], needed: Sequence[bool], registry: Registry, values_used: ValuesUsed,
-               strict: bool) -> list[float | None]:
+               strict: bool, faults: Faults | None = None) -> list[float | None]:
     """Each item's density where one is known. `needed[i]` says the result
     depends on it (a volume to convert); otherwise it only reports a volume,
-    so in strict mode an unverified one is left out rather than refused."""
-    out = []
+    so in strict mode an unverified one is left out rather than refused.
+    Every implausible density given is refused, all at once; with `faults`
+    they are kept there instead, for the caller to refuse with its own."""
+    out, found_faults = [], faults if faults is not None else Faults()
     for item, need in zip(items, needed):
-        found = density_value(item, registry)
+        found = found_faults.run(density_value, item, registry)
         if found is None or (strict and not need and found[1].status == "unverified"):
             out.append(None)
             continue
         out.append(found[0])
         values_used.add(found[1])
+    if faults is None:
+        found_faults.raise_any()
     return out
 
 
-def amount_densities(items, amounts: Sequence[Amount], registry, values_used, strict) -> list[float | None]:
-    """Densities for amounts: none at all for relative amounts."""
+def density_given(item: Resolved) -> bool:
+    """The request gives this item a density (an override, or inline)."""
+    return (item.density_override or item.inline.get("density")) is not None
+
+
+def amount_densities(items, amounts: Sequence[Amount], registry, values_used, strict, faults: Faults | None = None) -> list[float | None]:
+    """Densities for amounts: none at all for relative amounts. Every amount
+    by volume whose density is unknown is refused, all of them at once (the
+    core would name only the first), with any implausible density given;
+    with `faults` they are kept there instead."""
     if not any(a.kind in ABSOLUTE for a in amounts):
         return [None] * len(items)
-    return densities_for(items, [a.kind == "volume" for a in amounts], registry, values_used, strict)
+    found_faults = faults if faults is not None else Faults()
+    volumes = [a.kind == "volume" for a in amounts]
+    densities = densities_for(items, volumes, registry, values_used, strict, found_faults)
+    for item, by_volume, density in zip(items, volumes, densities):
+        # A density given but implausible is refused already, at its own pointer.
+        if by_volume and density is None and not density_given(item):
+            found_faults.add(item.path + ("amount",), "density_needed_for_volume",
+                             f"an amount by volume needs the density of {item.label}, and none is known: give it with 'density', or give a mass")
+    if faults is None:
+        found_faults.raise_any()
+    return densities
 
 
 # One refusal code per kind of value, whatever the emulsion type.

@@ -16,7 +16,7 @@ from service.core.measure import capacity_check
 from service.usecases.oil_phase import oil_phase_hlb
 from service.usecases.measuring import equipment_from, equipment_out, Row, measure_row, row_density
 from service.usecases.provenance import ValuesUsed
-from service.usecases.resolution import check_references, density_value, enforce_strict, hlb_ranges, invalid, resolve
+from service.usecases.resolution import Faults, check_references, density_value, enforce_strict, hlb_ranges, invalid, resolve
 from service.core.phases import DISPERSED
 from service.usecases.emulsifier_system import Formula, emulsifier_rows
 from service.units import from_canonical, to_canonical
@@ -38,34 +38,41 @@ class Computed:
     checks: list = field(default_factory=list)
 
 
+def _share_percent(row: Row, share: dict, registry: Registry, batch_mass_g: float | None, values_used: ValuesUsed) -> float:
+    """A row's share as % w/w of the formula; refuses a share it cannot be."""
+    item, path = row.item, row.path
+    kind, value = to_canonical(share["value"], share["unit"])
+    if kind == "volume" and item.physical_state in ("solid", "semisolid"):
+        raise invalid(path + ("share", "unit"), "solids_by_weight", f"{item.label} is a {item.physical_state}: give it as a mass or % w/w, never a volume")
+    if kind == "percent_w_w":
+        return value
+    if kind == "parts":
+        raise invalid(path + ("share", "unit"), "share_basis", "a worksheet share is % w/w of the formula or an amount for the batch, not parts")
+    if batch_mass_g is None:
+        raise invalid(path + ("share", "unit"), "share_basis", "with a batch given as a volume, give every share as % w/w")
+    if kind == "volume":
+        density = row_density(row, registry, values_used)
+        if density is None:
+            raise invalid(path + ("share",), "density_needed_for_volume", f"no density is known for {item.label}: give it with 'density', or give a mass")
+        value = value * density
+    return value / batch_mass_g * 100.0
+
+
 def _formula_rows(data: dict, registry: Registry, batch_mass_g: float | None, values_used: ValuesUsed) -> list[Row]:
-    """The formula's own rows with their % w/w (None for the q.s. vehicle)."""
-    rows = []
+    """The formula's own rows with their % w/w (None for the q.s. vehicle).
+    Every row's fault is refused with the others', not the first alone."""
+    rows, faults = [], Faults()
     for i, x in enumerate(data["ingredients"]):
         path = ("ingredients", i)
         item = resolve(x, path, registry)
         row = Row(item, x["phase"], "qs" if x.get("qs") else "ingredient", path=path)
         if "share" in x:
-            kind, value = to_canonical(x["share"]["value"], x["share"]["unit"])
-            if kind == "volume" and item.physical_state in ("solid", "semisolid"):
-                raise invalid(path + ("share", "unit"), "solids_by_weight", f"{item.label} is a {item.physical_state}: give it as a mass or % w/w, never a volume")
-            if kind == "percent_w_w":
-                row.percent = value
-            elif kind == "parts":
-                raise invalid(path + ("share", "unit"), "share_basis", "a worksheet share is % w/w of the formula or an amount for the batch, not parts")
-            else:
-                if batch_mass_g is None:
-                    raise invalid(path + ("share", "unit"), "share_basis", "with a batch given as a volume, give every share as % w/w")
-                if kind == "volume":
-                    density = row_density(row, registry, values_used)
-                    if density is None:
-                        raise invalid(path + ("share",), "density_needed_for_volume", f"no density is known for {item.label}: give it with 'density', or give a mass")
-                    value = value * density
-                row.percent = value / batch_mass_g * 100.0
+            row.percent = faults.run(_share_percent, row, x["share"], registry, batch_mass_g, values_used)
         rows.append(row)
     qs = [r for r in rows if r.role == "qs"]
     if len(qs) > 1:
-        raise invalid(("ingredients",), "one_qs_vehicle", f"at most one ingredient may be the q.s. vehicle (found {len(qs)})")
+        faults.add(("ingredients",), "one_qs_vehicle", f"at most one ingredient may be the q.s. vehicle (found {len(qs)})")
+    faults.raise_any()
     return rows
 
 
@@ -149,11 +156,13 @@ def compute(data: dict, registry: Registry, strict: bool) -> Computed:
     if batch_mass is None:
         batch_volume = b_value
         densities = [row_density(r, registry, values_used) for r in all_rows]
-        missing = next((r for r, d in zip(all_rows, densities) if d is None), None)
-        if missing is not None:
-            raise invalid(missing.path, "density_needed_for_volume",
-                          f"a batch given as a volume needs every component's density; none is known for {missing.item.label}: "
-                          "give it with 'density', or give the batch as a mass")
+        faults = Faults()
+        for r, d in zip(all_rows, densities):
+            if d is None:
+                faults.add(r.path, "density_needed_for_volume",
+                           f"a batch given as a volume needs every component's density; none is known for {r.item.label}: "
+                           "give it with 'density', or give the batch as a mass")
+        faults.raise_any()
         batch_mass = mixture_mass_for_volume(b_value, [r.percent / 100.0 for r in all_rows], densities, ("ingredients",))
     enforce_strict(values_used, strict)
     return Computed(all_rows, batch_mass, batch_volume, rhlb, info, values_used, warnings)

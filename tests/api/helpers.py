@@ -30,3 +30,12 @@ def unverified_surfactants(registry, count=2):
             found.append(ing.id)
     assert len(found) >= count, "the registry has too few unverified surfactant HLBs left for this test"
     return found[:count]
+
+
+def invalid_list_body(size_bytes: int = 64 * 1024) -> bytes:
+    """A blend body of about `size_bytes`, every component of it invalid in
+    several ways (a string amount, an unknown unit, an id out of pattern, an
+    unknown key): the most a refusal can be made to cost in one request."""
+    item = '{"ingredient": "Not An Id", "amount": {"value": "1", "unit": "grams"}, "colour": 1}'
+    count = (size_bytes - 20) // (len(item) + 1)
+    return ('{"components": [' + ",".join([item] * count) + "]}").encode()

@@ -14,6 +14,7 @@ import time
 from registry import load_registry
 from service.http.app import create_app
 from service.http.spec_examples import EXAMPLES
+from tests.api.helpers import invalid_list_body
 
 PATHS = {"blendHlb": "/v1/blends/hlb", "blendProportions": "/v1/blends/proportions", "oilPhaseRequiredHlb": "/v1/oil-phases/required-hlb",
          "emulsifierMinimum": "/v1/emulsifier/minimum", "createWorksheet": "/v1/worksheets", "candidatePairs": "/v1/candidate-pairs",
@@ -21,13 +22,29 @@ PATHS = {"blendHlb": "/v1/blends/hlb", "blendProportions": "/v1/blends/proportio
          "requiredHlbSeriesEvaluate": "/v1/required-hlb-series/evaluate"}
 
 
-def median_ms(fn, repeat: int) -> float:
+def median_ms(fn, repeat: int, clock=time.perf_counter) -> float:
     times = []
     for _ in range(repeat):
-        start = time.perf_counter()
+        start = clock()
         fn()
-        times.append((time.perf_counter() - start) * 1000)
+        times.append((clock() - start) * 1000)
     return statistics.median(times)
+
+
+def bench_invalid_body(client) -> None:
+    """64 KiB bodies that are all faults: what one refusal costs, in CPU time
+    and in the size of the answer. Many invalid list items (refused by the
+    list's length), and many unknown keys within bounds (the error cap)."""
+    keys = ('{"components": [{"ingredient": "polysorbate-80", "amount": {"value": 1, "unit": "g"}}, '
+            '{"ingredient": "sorbitan-monooleate", "amount": {"value": 1, "unit": "g"}}, ')
+    keys = (keys + ", ".join(f'"k{i:05d}": 0' for i in range((64 * 1024 - len(keys)) // 13)) + "}").replace("}}, \"k", "}}], \"k", 1)
+    for label, body in (("invalid items", invalid_list_body()), ("unknown keys", keys.encode())):
+        response = client.post("/v1/blends/hlb", data=body, content_type="application/json")
+        assert response.status_code == 422, response.status_code
+        # CPU time, not wall time: a refusal's cost is what it takes from the worker.
+        cost = median_ms(lambda: client.post("/v1/blends/hlb", data=body, content_type="application/json"), 20, clock=time.process_time)
+        print(f"POST /v1/blends/hlb (64 KiB of {label}, {len(body)} bytes): {cost:.1f} ms CPU, "
+              f"answer {len(response.get_data())} bytes, {len(response.get_json()['errors'])} error items")
 
 
 def main() -> None:
@@ -35,6 +52,7 @@ def main() -> None:
     print(f"create_app: {median_ms(create_app, 3):.1f} ms")
     client = create_app().test_client()
     print(f"GET /healthz: {median_ms(lambda: client.get('/healthz'), 300):.3f} ms")
+    bench_invalid_body(client)
     for op, examples in EXAMPLES.items():
         for name, example in examples.items():
             body = example["value"]

@@ -18,7 +18,7 @@ DYNAMIC_REFUSALS = {"hlb_known", "required_hlb_known"}
 
 
 def literals() -> dict[str, set[str]]:
-    found = {"check": set(), "warning": set(), "refusal": set()}
+    found = {"check": set(), "warning": set(), "refusal": set(), "schema": set()}
     for path in SERVICE.rglob("*.py"):
         if path.name == "codes.py":
             continue
@@ -26,7 +26,8 @@ def literals() -> dict[str, set[str]]:
             if isinstance(node, ast.Call):
                 name = node.func.id if isinstance(node.func, ast.Name) else getattr(node.func, "attr", None)
                 index, kind = {"Check": (0, "check"), "Finding": (0, "warning"), "CalculationError": (1, "refusal"),
-                               "invalid": (1, "refusal"), "at": (1, "refusal")}.get(name, (None, None))
+                               "invalid": (1, "refusal"), "at": (1, "refusal"), "add": (1, "refusal"),
+                               "Fault": (1, "schema"), "named": (0, "schema")}.get(name, (None, None))
                 if index is not None and len(node.args) > index and isinstance(node.args[index], ast.Constant):
                     found[kind].add(node.args[index].value)
             elif isinstance(node, ast.Dict):
@@ -61,6 +62,6 @@ def test_nothing_catalogued_is_unused():
 def test_every_schema_rule_is_catalogued():
     emitted = {r for _, r in MESSAGE_RULES} | {"schema"}
     emitted |= {rule.code for cls in _rule_schemas().values() for rule in cls.RULES}
-    emitted |= {"finite_number", "minimum", "maximum", "exclusive_minimum", "exclusive_maximum", "pattern"}
+    emitted |= literals()["schema"]
     assert emitted - set(SCHEMA_RULES) == set()
     assert set(SCHEMA_RULES) & set(codes.REFUSALS) == set(), "a code means one thing"

@@ -1,7 +1,7 @@
 """Request bodies of the four calculations."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields, validate
+from marshmallow import Schema, fields
 
 from service.http.schemas.common import (
     EMULSION_TYPES,
@@ -13,14 +13,14 @@ from service.http.schemas.common import (
     MassSchema,
     SensitivitySchema,
 )
-from service.http.schemas.fields import Boolean, Number, one_of
+from service.http.schemas.fields import Boolean, BoundedList, Number, one_of
 from service.http.schemas.enums import enum_field
 
 MAX_COMPONENTS = 30
 
 
 class BlendRequestSchema(Schema):
-    components = fields.List(fields.Nested(ComponentSchema), required=True, validate=validate.Length(min=2, max=MAX_COMPONENTS),
+    components = BoundedList(fields.Nested(ComponentSchema), required=True, min_items=2, max_items=MAX_COMPONENTS,
                              metadata={"description": "Two or more surfactants with their amounts."})
     emulsion_type = enum_field("EmulsionType", request=True, metadata={"description": "When given, the blend HLB is checked against the range usual for this type."})
     strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
@@ -33,9 +33,9 @@ class FixedSurfactantSchema(IngredientRefSchema):
 
 class SplitRequestSchema(Schema):
     target_hlb = Number(required=True, minimum=0, maximum=60)
-    pair = fields.List(fields.Nested(IngredientRefSchema), required=True, validate=validate.Length(equal=2),
+    pair = BoundedList(fields.Nested(IngredientRefSchema), required=True, exact_items=2,
                        metadata={"description": "The two surfactants whose proportions are solved for, one of lower and one of higher HLB than the target."})
-    fixed = fields.List(fields.Nested(FixedSurfactantSchema), validate=validate.Length(max=MAX_COMPONENTS),
+    fixed = BoundedList(fields.Nested(FixedSurfactantSchema), max_items=MAX_COMPONENTS,
                         metadata={"description": "Further surfactants at fixed shares of the blend."})
     total = fields.Nested(AbsoluteAmountSchema, metadata={"description": "Scale the blend to this total mass or volume."})
     emulsion_type = enum_field("EmulsionType", request=True)
@@ -48,7 +48,7 @@ class OilComponentSchema(ComponentSchema):
 
 class RequiredHlbRequestSchema(Schema):
     emulsion_type = enum_field("EmulsionType", request=True, required=True)
-    oil_phase = fields.List(fields.Nested(OilComponentSchema), required=True, validate=validate.Length(min=1, max=MAX_COMPONENTS))
+    oil_phase = BoundedList(fields.Nested(OilComponentSchema), required=True, min_items=1, max_items=MAX_COMPONENTS)
     strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
 

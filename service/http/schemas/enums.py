@@ -46,6 +46,9 @@ SCHEMA_RULES = {
     "plausible_amount": "An amount is plausible for its unit (1 µg to 1000 kg, 1 µL to 1000 L, % w/w up to 100): otherwise a slip of unit.",
     "plausible_density": "A density is from 0.05 to 25 g/mL (restated in each unit): otherwise a slip of unit.",
     "plausible_equipment": "Equipment figures are plausible for their unit: otherwise a slip of unit.",
+    "list_length": "A list holds the number of items allowed (checked before any item is).",
+    "no_control_characters": "Text holds no control characters (C0, DEL, C1; tab and newline included).",
+    "no_lone_surrogates": "Text holds no lone UTF-16 surrogate.",
     "schema": "Another rule of the schema.",
 }
 

@@ -7,7 +7,7 @@ from marshmallow import Schema, fields, validate
 from service.http.schemas.responses import RangeSchema, RegistryVersionSchema, answer
 from service.http.schemas.calculation_requests import OilComponentSchema
 from service.http.schemas.common import EMULSION_TYPES, IngredientRefSchema, MassSchema
-from service.http.schemas.fields import ID_PATTERN, Boolean, FullMatch, Number, one_of, text
+from service.http.schemas.fields import ID_PATTERN, Boolean, BoundedList, FullMatch, Number, one_of, text
 from service.http.schemas.rules import Rule, RuleChecks, at_least_one, at_most_one, exactly_one, not_above
 from service.http.schemas.worksheet_bodies import CheckSchema, EquipmentOutSchema, EquipmentSchema, MeasureSchema
 from service.http.schemas.enums import enum_field
@@ -74,7 +74,7 @@ class HlbEstimateRequestSchema(RuleChecks):
     acid_number = Number(exclusive_minimum=0, maximum=2000, metadata={"description": "mg KOH per g of the fatty acid."})
     oxyethylene_percent = Number(exclusive_minimum=0, maximum=100, metadata={"description": "E, weight % oxyethylene."})
     polyol_percent = Number(minimum=0, maximum=100, metadata={"description": "P, weight % polyol (sorbitol, glycerol...)."})
-    groups = fields.List(fields.Nested(GroupCountSchema), validate=validate.Length(min=1, max=30))
+    groups = BoundedList(fields.Nested(GroupCountSchema), min_items=1, max_items=30)
 
     RULES = _method_rules()
 
@@ -116,11 +116,11 @@ class HlbBoundsSchema(RuleChecks):
 
 class SeriesPlanRequestSchema(RuleChecks):
     emulsion_type = enum_field("EmulsionType", request=True, required=True)
-    pair = fields.List(fields.Nested(IngredientRefSchema), required=True, validate=validate.Length(equal=2))
+    pair = BoundedList(fields.Nested(IngredientRefSchema), required=True, exact_items=2)
     hlb_range = fields.Nested(HlbBoundsSchema, metadata={"description": "Default: all the pair reaches."})
     step_hlb = Number(minimum=0.05, maximum=20, metadata={"description": "HLB units between tests."})
     proportion_step_percent = Number(minimum=1, maximum=50, metadata={"description": "Step in the pair's proportions; default 10 (Griffin's 10 % steps)."})
-    oil_phase = fields.List(fields.Nested(OilComponentSchema), required=True, validate=validate.Length(min=1, max=20),
+    oil_phase = BoundedList(fields.Nested(OilComponentSchema), required=True, min_items=1, max_items=20,
                             metadata={"description": "The oil under test; amounts are shares of the oil phase (any basis)."})
     oil_percent = Number(required=True, exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "Oil phase, % w/w of each test emulsion."})
     emulsifier_percent = Number(required=True, exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "Emulsifier, % w/w of each test emulsion."})
@@ -181,10 +181,10 @@ class ObservationSchema(RuleChecks):
 
 class SeriesEvaluateRequestSchema(RuleChecks):
     strict = Boolean()
-    tests = fields.List(fields.Nested(ObservationSchema), required=True, validate=validate.Length(min=2, max=41))
+    tests = BoundedList(fields.Nested(ObservationSchema), required=True, min_items=2, max_items=41)
     higher_score_is_better = Boolean(metadata={"description": "Default true."})
     pair_hlb_range = fields.Nested(HlbBoundsSchema, metadata={"description": "What the pair reaches, to keep the next series within it."})
-    pair = fields.List(fields.Nested(IngredientRefSchema), validate=validate.Length(equal=2),
+    pair = BoundedList(fields.Nested(IngredientRefSchema), exact_items=2,
                        metadata={"description": "The series' surfactant pair: the next series is then also given as the pair's proportions, within its reach."})
 
     RULES = tuple(_same_in_every_test(k) for k in OBSERVATIONS) + (

@@ -106,15 +106,66 @@ def ingredient_id(**kwargs) -> fields.String:
     )
 
 
+class BoundedList(fields.List):
+    """A JSON array whose length is checked before any item is loaded:
+    marshmallow's List loads every item and only then runs validate.Length,
+    so a body of thousands of bad items cost a full validation of each, and
+    an error per fault, before the count alone refused it. The same
+    validate.Length stays among the validators, for apispec to publish it as
+    minItems and maxItems; by then it always passes."""
+
+    def __init__(self, cls_or_instance, *, min_items: int | None = None, max_items: int | None = None,
+                 exact_items: int | None = None, **kwargs):
+        self.length = validate.Length(min=min_items, max=max_items, equal=exact_items)
+        super().__init__(cls_or_instance, validate=self.length, **kwargs)
+
+    def _deserialize(self, value, attr, data, **kwargs):
+        if isinstance(value, list):
+            n, length = len(value), self.length
+            if length.equal is not None and n != length.equal:
+                raise ValidationError(Fault.named("list_length", f"Must hold exactly {length.equal} items (holds {n})."))
+            if length.min is not None and n < length.min:
+                raise ValidationError(Fault.named("list_length", f"Must hold at least {length.min} items (holds {n})."))
+            if length.max is not None and n > length.max:
+                raise ValidationError(Fault.named("list_length", f"Must hold at most {length.max} items (holds {n}); nothing in it was checked."))
+        return super()._deserialize(value, attr, data, **kwargs)
+
+
 def one_of(choices, **kwargs) -> fields.String:
     return fields.String(validate=validate.OneOf(list(choices)), **kwargs)
 
 
+# C0 (tab, newline and CR included), DEL and C1: none belongs in a name or a
+# search, and each could break a printed worksheet or a log line. The spec
+# publishes the same set as a JSON Schema pattern, in backslash-u escapes that
+# ECMA-262 and Python's re read alike.
+TEXT_PATTERN = r"^[^\u0000-\u001f\u007f-\u009f]*$"
+_CONTROL = re.compile(r"[\x00-\x1f\x7f-\x9f]")
+# A lone surrogate (JSON's "\ud800" unpaired) is no character at all: it cannot
+# be encoded as UTF-8, so an answer echoing it could not be sent.
+_SURROGATE = re.compile(r"[\ud800-\udfff]")
+
+
+def plain_text(value: str) -> str:
+    """Refuse lone surrogates and control characters, naming the rule broken;
+    the message gives the code point, never the character itself."""
+    found = _SURROGATE.search(value)
+    if found:
+        raise ValidationError(Fault.named("no_lone_surrogates", f"Must not hold a lone surrogate (U+{ord(found.group()):04X} at offset {found.start()})."))
+    found = _CONTROL.search(value)
+    if found:
+        raise ValidationError(Fault.named("no_control_characters",
+                                          f"Must not hold control characters (U+{ord(found.group()):04X} at offset {found.start()}; tabs and newlines included)."))
+    return value
+
+
 def text(max_length: int = 120, **kwargs) -> fields.String:
-    return fields.String(validate=validate.Length(min=1, max=max_length), **kwargs)
+    """Free text from the caller (a name): printable, 1 to max_length characters."""
+    metadata = {"pattern": TEXT_PATTERN, **kwargs.pop("metadata", {})}
+    return fields.String(validate=[validate.Length(min=1, max=max_length), plain_text], metadata=metadata, **kwargs)
 
 
-__all__ = ["Boolean", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Integer", "Number", "QueryNumber", "ingredient_id", "one_of", "text"]
+__all__ = ["Boolean", "BoundedList", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Integer", "Number", "QueryNumber", "TEXT_PATTERN", "ingredient_id", "one_of", "plain_text", "text"]
 
 
 class QueryNumber(Number):

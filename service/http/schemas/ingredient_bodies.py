@@ -6,7 +6,7 @@ from marshmallow import Schema, fields, validate
 
 from registry.model import FUNCTIONS
 from service.http.schemas.responses import CitationSchema, RegistryVersionSchema
-from service.http.schemas.fields import QueryNumber, one_of
+from service.http.schemas.fields import QueryNumber, one_of, text
 from service.http.schemas.rules import RuleChecks, not_above
 from service.http.schemas.enums import enum_field
 
@@ -19,7 +19,7 @@ MAX_SEARCH_LENGTH = 120
 
 
 class IngredientQuerySchema(RuleChecks):
-    q = fields.String(validate=validate.Length(min=1, max=MAX_SEARCH_LENGTH), metadata={
+    q = text(MAX_SEARCH_LENGTH, metadata={
         "description": "Ingredients whose name, a synonym or the id holds this text, ignoring case (e.g. `oleate`)."})
     role = one_of(ROLES)
     ionic_class = one_of(IONIC_CLASSES)
@@ -74,7 +74,7 @@ class IngredientSummarySchema(Schema):
     roles = fields.List(fields.String(), required=True)
     ionic_class = fields.String(required=True)
     physical_state = fields.String(required=True)
-    functions = fields.List(fields.String(), required=True, metadata={"description": "What it does in a formula; only an `emulsifier` is proposed as one."})
+    functions = fields.List(enum_field("IngredientFunction"), required=True, metadata={"description": "What it does in a formula; only an `emulsifier` is proposed as one."})
     fatty_chain = fields.String(required=True, allow_none=True)
     hlb = fields.Float(required=True, allow_none=True)
     required_hlb_ow = fields.Float(required=True, allow_none=True)

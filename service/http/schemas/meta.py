@@ -4,6 +4,7 @@ from __future__ import annotations
 from marshmallow import Schema, fields
 
 from service.http.schemas.enums import enum_field
+from service.http.problems import MAX_ERRORS
 from service.http.schemas.responses import RegistryVersionSchema
 
 
@@ -25,13 +26,20 @@ class ProblemItemSchema(Schema):
 
 
 class ProblemSchema(Schema):
-    """RFC 9457 problem details."""
+    """RFC 9457 problem details. At most MAX_ERRORS (50) error items are listed, in the
+    order found; when there were more, `errors_total` and `errors_omitted` say
+    how many. Text echoed from the request (an unknown key, an id) has its
+    control characters and lone surrogates written as `\\uXXXX`."""
 
     type = fields.String(required=True)
     title = fields.String(required=True)
     status = fields.Integer(required=True)
     detail = fields.String(required=True)
-    errors = fields.List(fields.Nested(ProblemItemSchema))
+    errors = fields.List(fields.Nested(ProblemItemSchema), metadata={
+        "maxItems": MAX_ERRORS, "description": f"Each fault, at most {MAX_ERRORS} (the first found)."})
+    errors_total = fields.Integer(metadata={"description": "Present when errors were left out: how many faults were found in all."})
+    errors_omitted = fields.Integer(metadata={"description": "Present when errors were left out: how many the list leaves out "
+                                                  f"(errors_total less {MAX_ERRORS})."})
     error_id = fields.String()
     suggestions = fields.List(fields.String(), metadata={"description": "For an unknown ingredient in the path: the closest registry ids, best first."})
 

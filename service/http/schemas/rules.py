@@ -24,6 +24,10 @@ class Fault(str):
         self.rule = rule
         return self
 
+    @classmethod
+    def named(cls, rule: str, message: str) -> "Fault":
+        return cls(message, rule)
+
 
 @dataclass(frozen=True)
 class Rule:

@@ -10,7 +10,7 @@ from service.http.schemas.common import (
     EMULSION_TYPES, IONIC_CLASSES, AmountSchema, BalanceCapacitySchema, BatchSizeSchema, DensitySchema, GraduateVolumeSchema,
     IngredientRefSchema, ReadabilitySchema, SensitivitySchema, SubdivisionSchema,
 )
-from service.http.schemas.fields import Boolean, Integer, Number, one_of
+from service.http.schemas.fields import Boolean, BoundedList, Integer, Number, one_of
 from service.http.schemas.rules import Rule, RuleChecks, at_most_one, exactly_one, requires, share_or_flag
 from service.units import MASS_UNITS, VOLUME_UNITS
 from service.http.schemas.enums import enum_field
@@ -42,7 +42,7 @@ OFF_SCALE_DESCRIPTION = "true also considers surfactants with an HLB above 20, o
 
 
 class ProposeSchema(Schema):
-    ionic_classes = fields.List(one_of(IONIC_CLASSES), validate=validate.Length(min=1, max=4),
+    ionic_classes = BoundedList(one_of(IONIC_CLASSES), min_items=1, max_items=4,
                                 metadata={"description": "Allowed ionic classes of the pair's members. Default nonionic only."})
     include_off_scale_hlb = Boolean(metadata={"description": OFF_SCALE_DESCRIPTION})
 
@@ -70,10 +70,10 @@ EMULSIFIER_RULES = (
 
 
 class EmulsifierSchema(RuleChecks):
-    pair = fields.List(fields.Nested(IngredientRefSchema), validate=validate.Length(equal=2),
+    pair = BoundedList(fields.Nested(IngredientRefSchema), exact_items=2,
                        metadata={"description": "The two surfactants whose proportions are solved for the oil phase's required HLB."})
     propose = fields.Nested(ProposeSchema, metadata={"description": "Let the service choose the top-ranked candidate pair."})
-    fixed = fields.List(fields.Nested(FixedEmulsifierSchema), validate=validate.Length(max=10),
+    fixed = BoundedList(fields.Nested(FixedEmulsifierSchema), max_items=10,
                         metadata={"description": "Surfactants at fixed % w/w of the formula (alone, or beside the pair)."})
     target_hlb = Number(minimum=0, maximum=60, metadata={"description": "Default: the oil phase's required HLB."})
     total_percent_w_w = Number(exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "The whole emulsifier system, % w/w of the formula."})
@@ -97,7 +97,7 @@ class WorksheetBalanceSchema(Schema):
 
 class EquipmentSchema(Schema):
     balance = fields.Nested(WorksheetBalanceSchema)
-    graduates = fields.List(fields.Nested(GraduateSchema), validate=validate.Length(max=20),
+    graduates = BoundedList(fields.Nested(GraduateSchema), max_items=20,
                             metadata={"description": "Graduates at hand. Default cylindrical 10, 25, 50, 100, 250, 500 and 1000 mL."})
 
 
@@ -109,7 +109,7 @@ class OutputUnitsSchema(Schema):
 class WorksheetRequestSchema(Schema):
     emulsion_type = enum_field("EmulsionType", request=True, required=True)
     batch = fields.Nested(BatchSizeSchema, required=True, metadata={"description": "Batch size, a mass or a volume."})
-    ingredients = fields.List(fields.Nested(FormulaIngredientSchema), required=True, validate=validate.Length(min=2, max=MAX_INGREDIENTS))
+    ingredients = BoundedList(fields.Nested(FormulaIngredientSchema), required=True, min_items=2, max_items=MAX_INGREDIENTS)
     emulsifier = fields.Nested(EmulsifierSchema, required=True)
     equipment = fields.Nested(EquipmentSchema)
     output_units = fields.Nested(OutputUnitsSchema)
@@ -124,9 +124,9 @@ class RescaleRequestSchema(Schema):
 class CandidateRequestSchema(RuleChecks):
     target_hlb = Number(minimum=0, maximum=60)
     emulsion_type = enum_field("EmulsionType", request=True)
-    oil_phase = fields.List(fields.Nested(OilComponentSchema), validate=validate.Length(min=1, max=30),
+    oil_phase = BoundedList(fields.Nested(OilComponentSchema), min_items=1, max_items=30,
                             metadata={"description": "Instead of target_hlb: the oil phase whose required HLB is the target."})
-    ionic_classes = fields.List(one_of(IONIC_CLASSES), validate=validate.Length(min=1, max=4), metadata={"description": "Default nonionic only."})
+    ionic_classes = BoundedList(one_of(IONIC_CLASSES), min_items=1, max_items=4, metadata={"description": "Default nonionic only."})
     limit = Integer(minimum=1, maximum=50, metadata={"description": "Default 10."})
     include_off_scale_hlb = Boolean(metadata={"description": OFF_SCALE_DESCRIPTION})
     strict = Boolean()
