@@ -31,7 +31,7 @@ FINDINGS = {
     "ionic_with_nonionic": "An ionic surfactant is blended arithmetically with nonionic ones: the blend HLB is a rough guide.",
     "ionic_class_unknown": "An inline ingredient has no ionic class, so compatibility could not be checked.",
     "hlb_off_griffin_scale": "A nonionic's HLB is above 20, off Griffin's scale: the figure is nominal.",
-    "hlb_outside_usual_range": "The blend HLB is outside the range usual for the emulsion type.",
+    "hlb_outside_usual_range": "The blend's (or an estimated) HLB is outside the range usual for the emulsion type.",
     "estimate_above_usual_levels": "The minimum emulsifier estimate is above the highest usual level in the registry.",
     "dispersed_phase_above_packing_limit": "The dispersed phase is above the close-packing limit: the emulsion may invert or fail.",
     "dispersed_phase_high": "The dispersed phase is above 60 % by volume: expect a thick, less stable emulsion.",

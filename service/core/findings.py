@@ -69,10 +69,10 @@ def off_scale_findings(members: Sequence[tuple[str, float, str]]) -> list[Findin
 
 
 def usual_range_finding(
-    hlb: float, emulsion_type: str | None, ranges: Mapping[str, tuple[float, float]]
+    hlb: float, emulsion_type: str | None, ranges: Mapping[str, tuple[float, float]], what: str = "blend HLB"
 ) -> Finding | None:
-    """A finding when a blend HLB lies outside the range usual for the
-    emulsion type (ranges: name -> (low, high))."""
+    """A finding when a blend's (or an estimated) HLB lies outside the range
+    usual for the emulsion type (ranges: name -> (low, high))."""
     if emulsion_type is None:
         return None
     low, high = ranges[RANGE_FOR_EMULSION_TYPE[emulsion_type]]
@@ -80,7 +80,7 @@ def usual_range_finding(
         return None
     return Finding(
         "hlb_outside_usual_range",
-        f"blend HLB {hlb:.1f} is outside the range usual for {emulsion_type} emulsifiers, {low:g} to {high:g}",
+        f"{what} {hlb:.1f} is outside the range usual for {emulsion_type} emulsifiers, {low:g} to {high:g}",
     )
 
 

@@ -13,7 +13,8 @@ from pathlib import Path
 from apispec import APISpec
 from apispec.ext.marshmallow import MarshmallowPlugin
 
-from service.http.spec_examples import EXAMPLES
+from service.http import answer_examples
+from service.http.spec_examples import EXAMPLES, PATH_EXAMPLES, QUERY_EXAMPLES
 from service.http.schemas import calculation_requests as calculations, estimate_bodies as estimates, ingredient_bodies as ingredients, meta
 from service.http.schemas import responses as answers, worksheet_bodies as worksheets
 from service.http.schemas.fields import Boolean, Number, QueryNumber
@@ -110,7 +111,9 @@ OPERATIONS = [
 
 
 def build_spec() -> dict:
-    """The OpenAPI document as a plain dict (deterministic for a given code)."""
+    """The OpenAPI document as a plain dict (deterministic for a given code
+    and the recorded response examples)."""
+    answers_recorded = answer_examples.load()
     plugin = MarshmallowPlugin()
     spec = APISpec(
         title="Emulsion formulation service",
@@ -129,8 +132,9 @@ def build_spec() -> dict:
             "responses": {"200": {"description": "OK", "content": {"application/json": {"schema": out}}}},
         }
         if "406" in errors:
-            text = {"schema": {"type": "string"}}
-            operation["responses"]["200"]["content"].update({"text/markdown": text, "text/plain": text})
+            operation["responses"]["200"]["content"].update({"text/markdown": {"schema": {"type": "string"}}, "text/plain": {"schema": {"type": "string"}}})
+        for media, named in answers_recorded.get(op_id, {}).items():
+            operation["responses"]["200"]["content"][media]["examples"] = named
         if body is not None:
             content = {"schema": body}
             if op_id in EXAMPLES:
@@ -140,7 +144,7 @@ def build_spec() -> dict:
         if query is not None:
             parameters.append({"in": "query", "schema": query})
         if "{ingredient_id}" in path:
-            parameters.append({"in": "path", "name": "ingredient_id", "required": True,
+            parameters.append({"in": "path", "name": "ingredient_id", "required": True, "example": PATH_EXAMPLES[op_id]["ingredient_id"],
                                "schema": {"type": "string", "minLength": 1, "maxLength": 200}})
         if parameters:
             operation["parameters"] = parameters
@@ -153,6 +157,7 @@ def build_spec() -> dict:
             _publish_query_relations(operation, query)
         spec.path(path=path, operations={method: operation})
     document = spec.to_dict()
+    _query_examples(document)
     _publish_rules(document["components"]["schemas"])
     publish_enums(document)
     _open_answers(document)
@@ -195,6 +200,16 @@ def _open_answers(document: dict) -> None:
     for name, schema in schemas.items():
         if name not in in_requests and schema.get("additionalProperties") is False:
             del schema["additionalProperties"]
+
+
+def _query_examples(document: dict) -> None:
+    """A request example for the operations whose request is a query."""
+    for operations in document["paths"].values():
+        for operation in operations.values():
+            example = QUERY_EXAMPLES.get(operation["operationId"], {})
+            for parameter in operation.get("parameters", []):
+                if parameter["in"] == "query" and parameter["name"] in example:
+                    parameter["example"] = example[parameter["name"]]
 
 
 def _rule_schemas() -> dict[str, type]:
@@ -240,8 +255,17 @@ def spec_json(spec: dict) -> str:
 
 def main(argv: list[str] | None = None) -> int:
     parser = argparse.ArgumentParser(description="Print or write the OpenAPI document.")
-    parser.add_argument("--write", action="store_true", help=f"write it to {SPEC_PATH}")
+    parser.add_argument("--write", action="store_true", help=f"record the response examples and write the document to {SPEC_PATH}")
     args = parser.parse_args(argv)
+    if args.write:
+        # The answers are recorded on the shipped registry, whatever the
+        # environment says, so that the committed examples do not depend on it.
+        from registry import DEFAULT_ROOT
+        from service.http.app import create_app
+
+        app = create_app({"registry_root": str(DEFAULT_ROOT), "site_overlay": None, "strict": False})
+        answer_examples.RESPONSE_EXAMPLES_PATH.write_text(answer_examples.examples_json(answer_examples.record(app)), encoding="utf-8")
+        print(f"wrote {answer_examples.RESPONSE_EXAMPLES_PATH}")
     text = spec_json(build_spec())
     if args.write:
         SPEC_PATH.write_text(text, encoding="utf-8")

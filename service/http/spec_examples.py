@@ -98,4 +98,21 @@ EXAMPLES = {
                    "value": {"tests": [{"hlb": 8, "score": 2}, {"hlb": 9, "score": 5}, {"hlb": 10, "score": 8}, {"hlb": 11, "score": 6}, {"hlb": 12, "score": 3}],
                              "pair_hlb_range": {"low": 4.3, "high": 15.0}}},
     },
+    "rescaleWorksheet": {
+        "to_500_g": {"summary": "The hand lotion's worksheet for a 500 g batch",
+                     "value": {"worksheet": None, "batch": {"value": 500, "unit": "g"}}},
+    },
 }
+EXAMPLES["rescaleWorksheet"]["to_500_g"]["value"]["worksheet"] = EXAMPLES["createWorksheet"]["lotion"]["value"]
+
+# Requests without a body: the query or path of each operation's example.
+GET_EXAMPLES = {
+    "listDaviesGroups": ("all", "The group numbers", "/v1/davies-groups"),
+    "listIngredients": ("oleates", "Emulsifying agents whose name holds 'oleate'", "/v1/ingredients?q=oleate&function=emulsifier"),
+    "getIngredient": ("polysorbate_80", "One surfactant with every value", "/v1/ingredients/polysorbate-80"),
+    "listSources": ("all", "The bibliography", "/v1/sources"),
+    "healthz": ("up", "The service is up", "/healthz"),
+}
+QUERY_EXAMPLES = {"listIngredients": {"q": "oleate", "function": "emulsifier"}}
+PATH_EXAMPLES = {"getIngredient": {"ingredient_id": "polysorbate-80"}}
+

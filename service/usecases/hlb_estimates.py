@@ -8,7 +8,8 @@ from molmass import Formula, FormulaError
 
 from registry import Registry
 from service.usecases import methods
-from service.usecases.answers import envelope, hlb_display, unrounded
+from service.core import findings as core_findings
+from service.usecases.answers import envelope, finding_warnings, hlb_display, unrounded
 from service.core.estimates import (
     Scope,
     check_griffin_scope,
@@ -18,7 +19,7 @@ from service.core.estimates import (
     griffin_saponification,
 )
 from service.usecases.provenance import ValueUsed, ValuesUsed, figures_differ
-from service.usecases.resolution import Faults, enforce_strict, invalid
+from service.usecases.resolution import hlb_ranges, Faults, enforce_strict, invalid
 
 MAX_MOLAR_MASS = 1e6
 
@@ -106,6 +107,7 @@ def estimate(data: dict, registry: Registry, strict: bool = False) -> dict:
         if hlb > 20.0:
             warnings.append({"code": "off_griffin_scale", "subject": None,
                              "message": f"HLB {hlb:.1f} lies above Griffin's 0 to 20 scale, as ionic values do; mix it with nonionic HLBs only with care"})
+    warnings += finding_warnings([core_findings.usual_range_finding(hlb, data.get("emulsion_type"), hlb_ranges(registry), "estimated HLB")])
     result = {"method": method, "hlb": hlb_display(hlb), "hlb_unrounded": unrounded(hlb), "scope": SCOPES[method],
               "weaknesses": weaknesses, "contributions": contributions, "molar_masses": molar}
     return envelope(result, {"request": copy.deepcopy(data)}, chosen, values_used, warnings, registry, strict=strict)

@@ -125,3 +125,15 @@ def test_series_plan_warns_on_a_crowded_dispersed_phase(client):
     body = client.post("/v1/required-hlb-series/plan", json=dict(PLAN, oil_percent=65, emulsifier_percent=5)).get_json()
     assert "dispersed_phase_high" in {w["code"] for w in body["warnings"]}
     assert "dispersed_phase_high" not in {w["code"] for w in client.post("/v1/required-hlb-series/plan", json=PLAN).get_json()["warnings"]}
+
+
+def test_an_estimate_is_checked_against_the_emulsion_type_given(client):
+    # 20(1 - 161/198) = 3.7 (Griffin 1954's formula; the figures as in the
+    # spec's own example): usual for W/O emulsifiers, not for O/W ones
+    # (the registry's HLB ranges).
+    body = {"method": "griffin_saponification", "saponification_number": 161, "acid_number": 198}
+    for emulsion_type, flagged in (("W/O", False), ("O/W", True)):
+        answer = client.post("/v1/hlb-estimates", json={**body, "emulsion_type": emulsion_type}).get_json()
+        codes = [w["code"] for w in answer["warnings"]]
+        assert ("hlb_outside_usual_range" in codes) is flagged, emulsion_type
+    assert "hlb_outside_usual_range" not in [w["code"] for w in client.post("/v1/hlb-estimates", json=body).get_json()["warnings"]]

@@ -105,6 +105,19 @@ def test_docs_page(client):
     assert "/v1/blends/hlb" in html and 'id="problem-invalid-input"' in html
 
 
+def test_docs_page_shows_examples_codes_and_linked_schemas(client):
+    from service.core.codes import WARNINGS
+
+    html = client.get("/docs").get_data(as_text=True)
+    # Every operation's request and response examples, folded.
+    assert html.count("Request example") >= 10 and html.count("Response example") >= 15
+    # Each schema reference is a link to the schema's own heading.
+    assert '<a href="#schema-Amount">&#34;#/components/schemas/Amount&#34;</a>' in html and 'id="schema-Amount"' in html
+    # The code catalogue, each code with its meaning.
+    assert 'id="code-WarningCode"' in html and 'id="code-RuleCode"' in html
+    assert "<code>unverified_value</code></td><td>" + WARNINGS["unverified_value"] in html
+
+
 def test_functions_and_doubtful_values_are_shown(client):
     opacifiers = client.get("/v1/ingredients?function=opacifier").get_json()
     assert "ethylene-glycol-distearate" in [i["id"] for i in opacifiers["ingredients"]]

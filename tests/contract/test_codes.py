@@ -65,3 +65,51 @@ def test_every_schema_rule_is_catalogued():
     emitted |= literals()["schema"]
     assert emitted - set(SCHEMA_RULES) == set()
     assert set(SCHEMA_RULES) & set(codes.REFUSALS) == set(), "a code means one thing"
+
+
+README = Path(__file__).resolve().parents[2] / "README.md"
+START, END = "<!-- codes:start -->\n", "<!-- codes:end -->\n"
+
+
+def codes_markdown() -> str:
+    """The README's code tables, from the catalogue."""
+    from service.http.schemas.enums import ENUMS
+
+    out = []
+    for name, title in (("WarningCode", "Warnings (`warnings[].code`)"), ("CheckCode", "Checks (`checks[].code`; a failed one is also warned as `check_<code>`)"),
+                        ("RuleCode", "Rules (`errors[].rule` of a problem)")):
+        e = ENUMS[name]
+        out += [f"{title}:", "", "| code | meaning |", "|---|---|"]
+        out += [f"| `{v}` | {e.meanings.get(v, '')} |" for v in e.values if not (name == "WarningCode" and v.startswith("check_"))]
+        out.append("")
+    return "\n".join(out)
+
+
+def readme_block() -> str:
+    text = README.read_text(encoding="utf-8")
+    return text[text.index(START) + len(START):text.index(END)]
+
+
+def test_readme_lists_every_code_with_its_meaning():
+    assert readme_block() == codes_markdown(), "README's code tables are stale: run `python -m tests.contract.test_codes --write`"
+
+
+if __name__ == "__main__":
+    import sys
+
+    if "--write" in sys.argv:
+        text = README.read_text(encoding="utf-8")
+        head, rest = text.split(START, 1)
+        _, tail = rest.split(END, 1)
+        README.write_text(head + START + codes_markdown() + END + tail, encoding="utf-8")
+        print(f"wrote the code tables of {README}")
+
+
+def test_enum_members_are_unique_and_named():
+    from service.http.schemas.enums import ENUMS, component
+
+    for name in ENUMS:
+        c = component(name)
+        assert len(set(c["enum"])) == len(c["enum"]), name
+        assert len(set(c["x-enum-varnames"])) == len(c["x-enum-varnames"]), name
+        assert all(v.isidentifier() and v.isupper() for v in c["x-enum-varnames"]), name

@@ -8,6 +8,7 @@ import os
 import socket
 import subprocess
 import sys
+import tempfile
 import time
 from pathlib import Path
 
@@ -26,8 +27,11 @@ def free_port() -> int:
 def server():
     port = free_port()
     env = {**os.environ, "EMULSION_BIND": f"127.0.0.1:{port}", "EMULSION_WORKERS": "1"}
+    # The server's log goes to a file, not a pipe: a pipe nobody reads fills
+    # up under many requests and blocks the server.
+    log = tempfile.TemporaryFile()
     proc = subprocess.Popen([sys.executable, "-m", "gunicorn", "-c", "service/gunicorn_conf.py", "service.wsgi:app"],
-                            cwd=ROOT, env=env, stdout=subprocess.PIPE, stderr=subprocess.STDOUT)
+                            cwd=ROOT, env=env, stdout=log, stderr=subprocess.STDOUT)
     deadline = time.monotonic() + 30
     while time.monotonic() < deadline:
         try:
@@ -35,20 +39,21 @@ def server():
                 break
         except OSError:
             if proc.poll() is not None:
-                # Close the pipe before failing, or its ResourceWarning fails an unrelated later test.
-                with proc.stdout:
-                    output = proc.stdout.read().decode(errors="replace")
+                # Close the log before failing, or its ResourceWarning fails an unrelated later test.
+                with log:
+                    log.seek(0)
+                    output = log.read().decode(errors="replace")
                 pytest.fail(f"gunicorn exited with status {proc.returncode}: {output}")
             time.sleep(0.1)
     else:
         proc.kill()
         proc.wait(timeout=30)
-        proc.stdout.close()
+        log.close()
         pytest.fail("gunicorn did not start")
     yield port
     proc.terminate()
     proc.wait(timeout=30)
-    proc.stdout.close()
+    log.close()
 
 
 def request(port, method, path, body=None, headers=None, chunked=False):
@@ -106,3 +111,16 @@ def test_gunicorn_refuses_to_start_on_a_broken_registry(tmp_path):
     assert "emulsion service not started: the registry was not accepted: 2 fault(s)" in output
     assert "  data/ingredients/olive-oil.toml: values/required_hlb_ow/0/source: unknown source 'nowhere'" in output
     assert "  data/ingredients/castor-oil.toml: id: id 'castor' differs from the file name 'castor-oil'" in output
+
+
+def test_schemathesis_over_http_with_every_check_and_phase(server):
+    # The schemathesis CLI against the running server: every check, the
+    # examples, coverage and fuzzing phases, this API's hooks and own check
+    # (tests/contract/schemathesis_hooks.py). `pytest -m slow` does more.
+    env = {**os.environ, "SCHEMATHESIS_HOOKS": "tests.contract.schemathesis_hooks", "PYTHONPATH": str(ROOT)}
+    run = subprocess.run([sys.executable, "-m", "schemathesis.cli", "--config-file", "tests/contract/schemathesis.toml", "run",
+                          f"http://127.0.0.1:{server}/openapi.json", "--checks", "all", "--phases", "examples,coverage,fuzzing",
+                          "--max-examples", "10", "--no-color"], cwd=ROOT, env=env, capture_output=True, text=True, timeout=600)
+    summary = run.stdout[-3000:]
+    assert run.returncode == 0, summary
+    assert "passed" in summary and "failure" not in summary.lower().split("summary")[-1], summary

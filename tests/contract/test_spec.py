@@ -53,3 +53,24 @@ def test_spec_validates_against_the_openapi_3_1_schema():
 
     errors = [e.message for e in Draft202012Validator(OPENAPI_31).iter_errors(build_spec())]
     assert errors == []
+
+
+def test_recorded_answer_examples_are_what_the_service_answers(app):
+    from service.http.answer_examples import RESPONSE_EXAMPLES_PATH, examples_json, record
+
+    assert RESPONSE_EXAMPLES_PATH.read_text(encoding="utf-8") == examples_json(record(app)), \
+        "openapi/response_examples.json is stale: run `python -m service.http.spec --write`"
+
+
+def test_every_operation_has_a_request_and_a_response_example():
+    spec = build_spec()
+    for path, item in spec["paths"].items():
+        for method, op in item.items():
+            ok = op["responses"]["200"]["content"]
+            assert ok["application/json"].get("examples"), (path, method, "response example")
+            if "text/markdown" in ok and op["operationId"] == "createWorksheet":
+                assert ok["text/markdown"].get("examples"), (path, "markdown example")
+            if method == "post":
+                assert op["requestBody"]["content"]["application/json"].get("examples"), (path, "request example")
+            elif op.get("parameters"):
+                assert any("example" in p for p in op["parameters"]), (path, "parameter example")

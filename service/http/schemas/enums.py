@@ -85,9 +85,9 @@ ENUMS = {
     "IngredientFunction": Enum(tuple(FUNCTIONS), "What an ingredient does in a formula."),
     "WarningCode": Enum(tuple(codes.WARNINGS), "What a warning is about.", None, codes.WARNINGS),
     "CheckCode": Enum(tuple(codes.CHECKS), "What a check verifies.", None, codes.CHECKS),
-    "RuleCode": Enum(tuple(SCHEMA_RULES) + tuple(codes.REFUSALS) + ("target_outside_reachable_range",),
+    "RuleCode": Enum(tuple(SCHEMA_RULES) + tuple(codes.REFUSALS),
                      "The rule a problem item names: a rule of the request's schema, or a refusal of the calculation.", None,
-                     {**SCHEMA_RULES, **codes.REFUSALS, "target_outside_reachable_range": "The target HLB lies within what the pair can reach."}),
+                     {**SCHEMA_RULES, **codes.REFUSALS}),
 }
 
 

@@ -65,6 +65,7 @@ class HlbEstimateRequestSchema(RuleChecks):
     method = one_of(METHODS, required=True)
     name = text(metadata={"description": "What the surfactant is, for the record."})
     ionic_class = one_of(("nonionic", "anionic", "cationic", "amphoteric"), metadata={"description": "Default nonionic. Griffin's formulas refuse any other."})
+    emulsion_type = enum_field("EmulsionType", request=True, metadata={"description": "When given, the estimate is checked against the HLB range usual for this type's emulsifiers."})
     has_oxypropylene = Boolean(metadata={"description": "Contains propylene oxide units (outside Griffin's scope)."})
     contains_nitrogen = Boolean(metadata={"description": "Outside Griffin's scope; found from a formula when one is given."})
     contains_sulfur = Boolean(metadata={"description": "Outside Griffin's scope; found from a formula when one is given."})
@@ -164,10 +165,12 @@ OBSERVATIONS = ("score", "passed", "mean_droplet_um")
 
 
 def _same_in_every_test(key: str) -> Rule:
+    # JSON Schema could say it (a oneOf of two `items` forms of `tests`), but
+    # client generators cannot merge such a fragment with the list's own
+    # type, so it is published as a relation.
     return Rule("same_observation_kind", "tests", f"Give '{key}' for every test or for none.",
                 lambda d: len({key in t for t in d.get("tests", [])}) <= 1,
-                {"properties": {"tests": {"oneOf": [{"items": {"required": [key]}}, {"items": {"not": {"required": [key]}}}]}}},
-                fields=("tests",))
+                relation=f"`{key}` is given for every test or for none.", fields=("tests",))
 
 
 class ObservationSchema(RuleChecks):
