@@ -98,3 +98,21 @@ def test_both_densities_of_the_minimum_estimate(client):
     assert r.status_code == 422
     assert rules(r) == [("#/emulsifier/minimum_estimate/surfactant_density/value", "plausible_density"),
                         ("#/emulsifier/minimum_estimate/dispersed_phase_density/value", "plausible_density")]
+
+
+def test_a_field_fault_and_a_rule_between_fields_in_one_answer(client):
+    # A control character in a name (no_control_characters) and an oil phase
+    # without its emulsion type (requires): both, at once.
+    body = {"oil_phase": [inline("Oil\u0007 (demo)", 1, "parts", required_hlb=10)]}
+    r = client.post("/v1/candidate-pairs", json=body)
+    assert r.status_code == 422
+    assert sorted(rules(r)) == [("#/emulsion_type", "requires"), ("#/oil_phase/0/inline/name", "no_control_characters")]
+
+
+def test_a_rule_is_not_judged_on_a_field_that_failed(client):
+    # The pair fails its length: the emulsifier's rules do not then report
+    # it missing as well.
+    sheet = copy.deepcopy(LOTION)
+    sheet["emulsifier"] = {"pair": [{"ingredient": "polysorbate-80"}] * 3, "total_percent_w_w": 5}
+    r = client.post(SHEET, json=sheet)
+    assert rules(r) == [("#/emulsifier/pair", "list_length")]

@@ -60,8 +60,8 @@ def quantity(name: str, units, bounds_by_kind: dict[str, tuple[float, float]], w
     return schema
 
 
-AmountSchema = quantity("Amount", AMOUNT_UNITS, AMOUNT_BOUNDS, "amount: mass, volume, parts, or % w/w of the formula")
-AbsoluteAmountSchema = quantity("AbsoluteAmount", ABSOLUTE_UNITS, AMOUNT_BOUNDS, "mass or volume")
+AmountSchema = quantity("Amount", AMOUNT_UNITS, AMOUNT_BOUNDS, "amount")
+AbsoluteAmountSchema = quantity("AbsoluteAmount", ABSOLUTE_UNITS, AMOUNT_BOUNDS, "amount")
 MassSchema = quantity("Mass", MASS_UNITS, AMOUNT_BOUNDS, "mass")
 DensitySchema = quantity("Density", DENSITY_UNITS, DENSITY_BOUNDS, "density for a pharmaceutical ingredient", "plausible_density")
 BatchSizeSchema = quantity("BatchSize", ABSOLUTE_UNITS, BATCH_BOUNDS, "batch size")

@@ -103,17 +103,38 @@ def within_unit_bounds(code: str, bounds: dict[str, tuple[float, float]], what: 
     return Rule(code, "value", message, holds, {"oneOf": branches}, fields=("value", "unit"))
 
 
+def _loaded(rule: Rule, data: dict, original) -> bool:
+    """Whether every field of the rule loaded as sent: a field that failed is
+    missing from `data`, and the rule is then not judged."""
+    if not isinstance(original, dict):
+        return False
+    return all((name in original) == (name in data) for name in rule.fields)
+
+
+def _holds(rule: Rule, data: dict) -> bool:
+    """A rule over fields that did not load (left out of `data`, or partly
+    loaded) is not judged: the field's own fault is reported instead."""
+    try:
+        return rule.holds(data)
+    except (KeyError, TypeError, AttributeError):
+        return True
+
+
 class RuleChecks(Schema):
     """Runs the schema's RULES after its fields are valid; every broken rule is
     reported, not only the first."""
 
     RULES: tuple[Rule, ...] = ()
 
-    @validates_schema
-    def _rules(self, data, **kwargs):
+    # Run beside the fields' own faults, so that a request's every fault comes
+    # in one answer; a rule over a field that failed is judged on what loaded.
+    @validates_schema(skip_on_field_errors=False, pass_original=True)
+    def _rules(self, data, original, **kwargs):
         faults: dict[str, list] = {}
         for rule in type(self).RULES:
-            if not rule.holds(data):
+            if not _loaded(rule, data, original):
+                continue
+            if not _holds(rule, data):
                 message = rule.message(data) if callable(rule.message) else rule.message
                 faults.setdefault(rule.at, []).append(Fault(message, rule.code))
         if faults:
