@@ -6,7 +6,7 @@ from registry.coverage import HLB_PROPERTIES, by_computation, hlb_coverage, read
 # The share of HLB and required-HLB figures in use whose preferred value was
 # read in its cited source with a locator. Raise it when values are checked;
 # a change that lowers it fails here.
-READ_IN_SOURCE_FLOOR = 0.16  # 15 of 89 on 2026-12-01
+READ_IN_SOURCE_FLOOR = 0.21  # 19 of 89 on 2026-12-02
 
 
 def test_coverage_does_not_fall():
