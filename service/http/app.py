@@ -17,6 +17,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     RegistryError listing every fault) here, so the service never starts on
     partial data. Where the overlay meets shipped records, each collision is
     logged as a warning, naming both records and how to resolve it."""
+    from service.http import access, headers
     from service.http.blueprints import calculation_views, estimate_views, ingredient_views, meta_views, worksheet_views
     from service.http.problems import register_error_handlers
     from service.http.jsonio import StrictJSONProvider
@@ -40,6 +41,8 @@ def create_app(config: Mapping | None = None) -> Flask:
     app.extensions["openapi_json"] = spec_json(spec)
 
     register_error_handlers(app)
+    access.install(app, settings)
+    headers.install(app, tokens_required=bool(settings.api_tokens))
     for module in (calculation_views, worksheet_views, estimate_views, ingredient_views, meta_views):
         app.register_blueprint(module.bp)
 

@@ -3,7 +3,9 @@ create_app instead."""
 from __future__ import annotations
 
 import os
-from dataclasses import dataclass
+import re
+from dataclasses import dataclass, field
+from pathlib import Path
 
 from registry import DEFAULT_ROOT
 
@@ -24,6 +26,69 @@ def _flag(env, name: str) -> bool:
     raise ValueError(f"{name}={value!r}: expected one of {sorted(TRUE | FALSE - {''})}")
 
 
+# RFC 6750's b64token: what a client can send after "Bearer " unquoted.
+_B64TOKEN = re.compile(r"[A-Za-z0-9\-._~+/]+=*")
+# A token shorter than this could be guessed; 32 random hex digits is the
+# suggested form (README, "Access control").
+MIN_TOKEN_CHARS = 16
+# An exact origin as a browser sends it: scheme, host, optional port; no
+# path. Browsers send it in lower case, and it is compared exactly.
+_ORIGIN = re.compile(r"https?://[a-z0-9.-]+(:[0-9]{1,5})?")
+
+
+def _check_token(token: str, where: str) -> str:
+    # The message names where the token is, never the token: a start-up
+    # error is logged, and the token must not be.
+    if not _B64TOKEN.fullmatch(token):
+        raise ValueError(f"{where}: a token may hold only letters, digits and -._~+/ (then = signs), no spaces")
+    if len(token) < MIN_TOKEN_CHARS:
+        raise ValueError(f"{where}: a token of {len(token)} characters is too short to be secret; use at least {MIN_TOKEN_CHARS}")
+    return token
+
+
+def _tokens(env) -> tuple[str, ...]:
+    """The bearer tokens of EMULSION_API_TOKENS (comma-separated) and of the
+    file EMULSION_API_TOKENS_FILE (one a line; blank lines and # comments
+    skipped), both together. A variable set but holding no token is an
+    error: whoever set it meant to require tokens, and the service must not
+    start open instead."""
+    found: list[str] = []
+    listed = env.get("EMULSION_API_TOKENS", "")
+    if listed.strip():
+        items = [t.strip() for t in listed.split(",")]
+        found += [_check_token(t, f"EMULSION_API_TOKENS item {i}") for i, t in enumerate(items, 1) if t]
+        if not found:
+            raise ValueError("EMULSION_API_TOKENS is set but holds no token")
+    path = env.get("EMULSION_API_TOKENS_FILE", "")
+    if path:
+        try:
+            lines = Path(path).read_text(encoding="utf-8").splitlines()
+        except OSError as exc:
+            raise ValueError(f"EMULSION_API_TOKENS_FILE={path!r}: cannot be read ({exc.strerror or exc})") from None
+        except UnicodeDecodeError:
+            raise ValueError(f"EMULSION_API_TOKENS_FILE={path!r}: not UTF-8 text") from None
+        from_file = [_check_token(line.strip(), f"EMULSION_API_TOKENS_FILE={path!r} line {n}")
+                     for n, line in enumerate(lines, 1) if line.strip() and not line.strip().startswith("#")]
+        if not from_file:
+            raise ValueError(f"EMULSION_API_TOKENS_FILE={path!r} holds no token (only blank lines or # comments)")
+        found += from_file
+    return tuple(dict.fromkeys(found))
+
+
+def _origins(env) -> tuple[str, ...]:
+    """EMULSION_CORS_ORIGINS: comma-separated exact origins, or none."""
+    origins = tuple(o.strip() for o in env.get("EMULSION_CORS_ORIGINS", "").split(",") if o.strip())
+    for origin in origins:
+        _check_origin(origin)
+    return origins
+
+
+def _check_origin(origin: str) -> None:
+    if not _ORIGIN.fullmatch(origin):
+        raise ValueError(f"EMULSION_CORS_ORIGINS: {origin!r} is not an exact origin such as https://pharmacy.example or "
+                         "http://127.0.0.1:8080 (lower case; scheme and host, optional port, no path, no trailing slash; * is not accepted)")
+
+
 @dataclass(frozen=True)
 class Settings:
     registry_root: str = str(DEFAULT_ROOT)
@@ -34,6 +99,19 @@ class Settings:
     max_body_bytes: int = DEFAULT_MAX_BODY_BYTES
     # Flask's testing mode (exceptions propagate to the test client); tests only.
     testing: bool = False
+    # Bearer tokens a caller must present; none means every caller is served
+    # (the default, for one machine). Kept out of repr, so that printing or
+    # logging the settings never shows a token.
+    api_tokens: tuple[str, ...] = field(default=(), repr=False)
+    # Origins whose browser pages may call the service (CORS); none by default.
+    cors_origins: tuple[str, ...] = ()
+
+    def __post_init__(self):
+        # Settings given to create_app directly are held to the same rules.
+        for i, token in enumerate(self.api_tokens, 1):
+            _check_token(token, f"api_tokens item {i}")
+        for origin in self.cors_origins:
+            _check_origin(origin)
 
     @classmethod
     def from_env(cls, env: dict | None = None) -> "Settings":
@@ -43,4 +121,6 @@ class Settings:
             site_overlay=env.get("EMULSION_SITE_OVERLAY") or None,
             strict=_flag(env, "EMULSION_STRICT"),
             max_body_bytes=int(env.get("EMULSION_MAX_BODY_BYTES", DEFAULT_MAX_BODY_BYTES)),
+            api_tokens=_tokens(env),
+            cors_origins=_origins(env),
         )

@@ -14,6 +14,7 @@ from apispec import APISpec
 from apispec.ext.marshmallow import MarshmallowPlugin
 
 from service.http import answer_examples
+from service.http.access import OPEN_PATHS
 from service.http.spec_examples import EXAMPLES, PATH_EXAMPLES, QUERY_EXAMPLES
 from service.http.schemas import calculation_requests as calculations, estimate_bodies as estimates, ingredient_bodies as ingredients, meta
 from service.http.schemas import responses as answers, worksheet_bodies as worksheets
@@ -28,12 +29,25 @@ DESCRIPTION = (
     "Emulsion formulation calculations by the HLB system, on a curated ingredient registry with provenance. "
     "Every calculation answer carries the method and its sources, the values used with their provenance, "
     "warnings and cautions. Results are decision aids for a qualified pharmacist; local regulations and "
-    "compounding standards come first."
+    "compounding standards come first. "
+    "A deployment may require a bearer token (Authorization: Bearer <token>) on every operation but the probes and "
+    "this document, and answers 401 without one; a service run on one machine, as shipped, requires none."
 )
+
+# The scheme every operation but the probes declares. The empty requirement
+# beside it says that a deployment may run without tokens (the default):
+# the document describes the service however it is configured.
+SECURITY_SCHEME = {
+    "type": "http", "scheme": "bearer",
+    "description": "A token the deployment configured (EMULSION_API_TOKENS_FILE or EMULSION_API_TOKENS); "
+                   "without any configured, no token is asked for.",
+}
+SECURITY = [{"bearerAuth": []}, {}]
 
 PROBLEM = {"application/problem+json": {"schema": {"$ref": "#/components/schemas/Problem"}}}
 ERRORS = {
     "400": "The body is not strict JSON.",
+    "401": "No bearer token, or one the deployment does not accept; only where the deployment requires tokens.",
     "404": "No such resource.",
     "405": "Method not allowed on this path; the Allow header lists those that are.",
     "411": "A body was sent without Content-Length (chunked bodies are refused).",
@@ -126,6 +140,7 @@ def build_spec() -> dict:
     plugin.map_to_openapi_type(QueryNumber, "number", None)
     plugin.map_to_openapi_type(Boolean, "boolean", None)
     spec.components.schema("Problem", schema=meta.ProblemSchema)
+    spec.components.security_scheme("bearerAuth", SECURITY_SCHEME)
     for path, method, op_id, summary, description, body, query, out, errors, tag in OPERATIONS:
         operation: dict = {
             "operationId": op_id, "summary": summary, "description": description, "tags": [tag],
@@ -153,6 +168,13 @@ def build_spec() -> dict:
             if code == "405":
                 response["headers"] = {"Allow": {"description": "The methods this path allows.", "schema": {"type": "string"}}}
             operation["responses"][code] = response
+        if path in OPEN_PATHS:
+            operation["security"] = []
+        else:
+            operation["security"] = SECURITY
+            operation["responses"]["401"] = {"description": ERRORS["401"], "content": PROBLEM, "headers": {"WWW-Authenticate": {
+                "description": 'The challenge: Bearer realm="emulsion", with error="invalid_token" when a token was refused.',
+                "schema": {"type": "string"}}}}
         if query is not None:
             _publish_query_relations(operation, query)
         spec.path(path=path, operations={method: operation})

@@ -54,6 +54,7 @@ Answers may grow: within <code>/v1</code> members are added, never removed or ch
 <dt id="problem-invalid-input">invalid-input (422)</dt><dd>The body or query did not satisfy the schema or a rule of the domain.</dd>
 <dt id="problem-calculation-refused">calculation-refused (422)</dt><dd>The input is well formed but the calculation cannot be done as asked: a target outside the reachable range, amounts on no common basis, a missing value, an unverified value in strict mode.</dd>
 <dt id="problem-malformed-body">malformed-body (400)</dt><dd>The body is not strict JSON (NaN, Infinity, duplicate keys, too deep, or not JSON at all).</dd>
+<dt id="problem-unauthorized">unauthorized (401)</dt><dd>The deployment requires a bearer token and none was sent, or the one sent is not accepted (the <code>WWW-Authenticate</code> header says which).</dd>
 </dl>
 <h2 id="codes">Codes</h2>
 {% for name in code_enums %}{% set e = spec.components.schemas[name] %}<h3 id="code-{{ name }}">{{ name }}</h3><p>{{ e.description.split('\n')[0] }}</p>
