@@ -71,11 +71,11 @@ def os_reason(exc: OSError) -> str:
 
 
 def file_kind(mode: int) -> str:
-    for test, kind in ((stat.S_ISDIR, "a folder"), (stat.S_ISFIFO, "a named pipe (FIFO)"), (stat.S_ISSOCK, "a socket"),
+    for test, kind in ((stat.S_ISREG, "a regular file"), (stat.S_ISDIR, "a folder"), (stat.S_ISFIFO, "a named pipe (FIFO)"), (stat.S_ISSOCK, "a socket"),
                        (stat.S_ISCHR, "a character device"), (stat.S_ISBLK, "a block device")):
         if test(mode):
             return kind
-    return "not a regular file"
+    return "a special file"
 
 
 def folder_fault(path: Path, name: str, what: str) -> RegistryError | None:
