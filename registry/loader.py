@@ -9,12 +9,14 @@ steward's `check` command."""
 from __future__ import annotations
 
 import hashlib
+import os
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from registry.errors import RegistryError, RegistryFaults
 from registry.model import Ingredient, OverlayCollision, Registry, frozen_mapping
-from registry.records import Faults, davies, ingredient, override, read_toml, rel, release, sources_table, under
+from registry.records import (Faults, davies, folder_fault, ingredient, override, read_toml, rel, release, sources_table,
+                              toml_files, under)
 from registry.validation import SCHEMA_DIR, schema_faults, validator
 
 PACKAGE_DIR = Path(__file__).resolve().parent
@@ -145,48 +147,70 @@ def _digest(root: Path, paths: list[Path]) -> str:
     return digest.hexdigest()
 
 
-def _overlay(b: _Builder, overlay: Path, sources: dict | None) -> tuple[dict, str | None]:
-    """Apply the site overlay: (the sources with the site's, the overlay's digest)."""
-    if not (overlay / "ingredients").is_dir():
-        b.errors.append(RegistryError(str(overlay), "(folder)", "a site overlay needs an ingredients/ folder"))
-        return dict(sources or {}), None
+def _tree_files(b: _Builder, folder: Path, tree_root: Path) -> list[Path] | None:
+    """A folder's *.toml files, or None (its fault recorded) when it cannot be listed."""
+    try:
+        return toml_files(folder, tree_root)
+    except RegistryError as exc:
+        b.errors.append(exc)
+        return None
+
+
+def _overlay(b: _Builder, overlay: Path, sources: dict | None) -> tuple[dict, list[Path]]:
+    """Apply the site overlay: (the sources with the site's, the overlay's files read)."""
+    fault = folder_fault(overlay, str(overlay), "the site overlay")
+    if fault is None and not os.path.lexists(overlay / "ingredients"):
+        fault = RegistryError(str(overlay), "(folder)", "a site overlay needs an ingredients/ folder")
+    fault = fault or folder_fault(overlay / "ingredients", rel(overlay / "ingredients", overlay), "the site overlay's ingredients/")
+    if fault is not None:
+        b.errors.append(fault)
+        return dict(sources or {}), []
     all_sources = dict(sources or {})
     site_sources_ok = True
     site_sources_path = overlay / "sources.toml"
-    if site_sources_path.exists():
+    # lexists: a link to nothing, or a loop, is a fault to report, not an absent file.
+    has_sources = os.path.lexists(site_sources_path)
+    if has_sources:
         local = b.table(site_sources_path, overlay, sources_table, True)
         site_sources_ok = local is not None
         for sid in local or {}:
             if sid in all_sources:
                 b.errors.append(RegistryError(rel(site_sources_path, overlay), f"sources/{sid}", "a site source cannot reuse a shipped source's id"))
         all_sources.update(local or {})
-    paths = sorted((overlay / "ingredients").glob("*.toml"))
+    paths = _tree_files(b, overlay / "ingredients", overlay) or []
     checkable = all_sources if sources is not None and site_sources_ok else None
     for path in paths:
         b.ingredient_file(path, overlay, True, checkable)
-    return all_sources, _digest(overlay, [p for p in [site_sources_path] if p.exists()] + paths)
+    return all_sources, [site_sources_path] * has_sources + paths
 
 
 def _build(root: Path, overlay: Path | None) -> TreeCheck:
+    fault = folder_fault(root, str(root), "the registry root")
+    if fault is not None:
+        return TreeCheck(None, [fault])
     b = _Builder()
     release_path, sources_path, davies_path = (root / name for name in TREE_FILES[:3])
     for required in (release_path, sources_path, davies_path, root / "ingredients"):
-        if not required.exists():
+        if not os.path.lexists(required):
             return TreeCheck(None, [RegistryError(rel(required, root), "(file)", "missing from the registry tree")])
+    fault = folder_fault(root / "ingredients", rel(root / "ingredients", root), "the registry's ingredients/")
+    if fault is not None:
+        return TreeCheck(None, [fault])
 
     sources = b.table(sources_path, root, sources_table, False)
     tables = b.table(release_path, root, release, sources)
     groups = b.table(davies_path, root, davies, sources)
-    ingredient_paths = sorted((root / "ingredients").glob("*.toml"))
+    listed = _tree_files(b, root / "ingredients", root)
+    ingredient_paths = listed or []
     for path in ingredient_paths:
         b.ingredient_file(path, root, False, sources)
-    if not ingredient_paths:
+    if listed == []:
         b.errors.append(RegistryError(rel(root / "ingredients", root), "(folder)", "holds no ingredient files"))
 
-    overlay_digest = None
+    overlay_paths: list[Path] = []
     all_sources = dict(sources or {})
     if overlay is not None:
-        all_sources, overlay_digest = _overlay(b, Path(overlay), sources)
+        all_sources, overlay_paths = _overlay(b, Path(overlay), sources)
 
     if b.errors or tables is None or groups is None:
         return TreeCheck(None, b.errors, b.collisions)
@@ -195,13 +219,14 @@ def _build(root: Path, overlay: Path | None) -> TreeCheck:
         release=release_number,
         # The data files only: reviewed.lock.toml is derived from them (see
         # registry/review.py), and the service never reads it.
+        # Digests are taken only once every file was read as a regular file.
         digest=_digest(root, [release_path, sources_path, davies_path, *ingredient_paths]),
         ingredients=frozen_mapping(b.ingredients),
         sources=frozen_mapping(all_sources),
         hlb_ranges=hlb_ranges,
         davies_groups=frozen_mapping(groups),
         emulsifier_levels=levels,
-        overlay_digest=overlay_digest,
+        overlay_digest=_digest(Path(overlay), overlay_paths) if overlay is not None else None,
         overlay_root=str(overlay) if overlay is not None else None,
         names=frozen_mapping(b.names),
         shadowed=frozen_mapping(b.shadowed),

@@ -8,6 +8,9 @@ run names every fault of a file; a builder returns None when it found any.
 are then left unchecked rather than each reported as unknown."""
 from __future__ import annotations
 
+import errno
+import os
+import stat
 import tomllib
 from dataclasses import replace
 from pathlib import Path
@@ -54,11 +57,68 @@ def rel(path: Path, root: Path) -> str:
         return str(path)
 
 
-def read_toml(path: Path, root: Path) -> dict:
+def os_reason(exc: OSError) -> str:
+    """What an operating-system error says of a path, for a steward to act on."""
+    if exc.errno == errno.ELOOP:
+        return "is a loop of symbolic links"
+    if exc.errno == errno.ENOENT:
+        return "is missing (or is a symbolic link to nothing)"
+    if exc.errno in (errno.EACCES, errno.EPERM):
+        return "cannot be read: permission denied"
+    if exc.errno == errno.ENOTDIR:
+        return "is under something that is not a folder"
+    return f"cannot be read: {exc.strerror or exc}"
+
+
+def file_kind(mode: int) -> str:
+    for test, kind in ((stat.S_ISREG, "a regular file"), (stat.S_ISDIR, "a folder"), (stat.S_ISFIFO, "a named pipe (FIFO)"), (stat.S_ISSOCK, "a socket"),
+                       (stat.S_ISCHR, "a character device"), (stat.S_ISBLK, "a block device")):
+        if test(mode):
+            return kind
+    return "a special file"
+
+
+def folder_fault(path: Path, name: str, what: str) -> RegistryError | None:
+    """Why `path` cannot be walked as a folder (None when it can), with
+    `what` it is, e.g. "the site overlay"."""
     try:
-        return tomllib.loads(path.read_text(encoding="utf-8"))
-    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
-        raise RegistryError(rel(path, root), "(file)", f"not valid TOML: {exc}") from exc
+        mode = os.stat(path).st_mode  # follows links: a loop is ELOOP here
+        if not stat.S_ISDIR(mode):
+            return RegistryError(name, "(folder)", f"{what} is {file_kind(mode)}, not a folder")
+        os.scandir(path).close()  # readable and searchable (permissions, or a mount gone)
+    except OSError as exc:
+        return RegistryError(name, "(folder)", f"{what} {os_reason(exc)}")
+    return None
+
+
+def toml_files(folder: Path, root: Path) -> list[Path]:
+    """The *.toml entries of a folder, in name order. Unlike Path.glob, an
+    unreadable folder raises (a RegistryError naming it) instead of looking empty."""
+    try:
+        with os.scandir(folder) as entries:
+            names = sorted(entry.name for entry in entries if entry.name.endswith(".toml"))
+    except OSError as exc:
+        raise RegistryError(rel(folder, root), "(folder)", f"the folder {os_reason(exc)}") from exc
+    return [folder / name for name in names]
+
+
+def read_toml(path: Path, root: Path) -> dict:
+    file = rel(path, root)
+    try:
+        # Checked before opening: opening a named pipe for reading waits for
+        # a writer, and would hang the start for ever.
+        mode = os.stat(path).st_mode
+        if not stat.S_ISREG(mode):
+            raise RegistryError(file, "(file)", f"is {file_kind(mode)}, not a regular file (it was not opened)")
+        text = path.read_text(encoding="utf-8")
+    except OSError as exc:
+        raise RegistryError(file, "(file)", f"the file {os_reason(exc)}") from exc
+    except UnicodeDecodeError as exc:
+        raise RegistryError(file, "(file)", f"not valid TOML: {exc}") from exc
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise RegistryError(file, "(file)", f"not valid TOML: {exc}") from exc
 
 
 def known_source(source_id: str, sources: dict | None, faults: Faults, field: str) -> None:

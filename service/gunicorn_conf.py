@@ -1,11 +1,30 @@
 """gunicorn settings, always passed with -c (gunicorn otherwise loads any
-./gunicorn.conf.py it finds). Values measured to suit 2 cores."""
+./gunicorn.conf.py it finds). Values measured to suit 2 cores.
+
+Every setting from the environment is checked here, before gunicorn binds or
+forks: one that cannot work stops the start with one line (service/startup.py)."""
 import os
 
-bind = os.environ.get("EMULSION_BIND", "127.0.0.1:8000")
-workers = int(os.environ.get("EMULSION_WORKERS", "2"))
+from service.http.config import ServerSettings, SettingError, Settings
+from service.startup import refuse
+
+try:
+    _server = ServerSettings.from_env()
+    # The application's settings too, so that they are refused before the
+    # socket is bound rather than in the middle of gunicorn's start.
+    Settings.from_env()
+except SettingError as exc:
+    refuse(exc)
+
+bind = _server.bind
+workers = _server.workers
 worker_class = "sync"
 timeout = 30
+# A stop (SIGTERM) waits this long for requests in flight, then kills the
+# workers. It must stay below the stop timeout of whatever stops the service,
+# or the service is killed mid-request: Docker's default is 10 s, so run the
+# image with `--stop-timeout 30` (or `docker stop -t 30`); Kubernetes' default
+# grace period is 30 s. tests/contract/test_dockerfile.py holds it below 30 s.
 graceful_timeout = 25
 max_requests = 5000
 max_requests_jitter = 500
@@ -17,4 +36,4 @@ worker_tmp_dir = "/dev/shm" if os.path.isdir("/dev/shm") else None
 control_socket_disable = True
 accesslog = "-"
 errorlog = "-"
-loglevel = os.environ.get("EMULSION_LOG_LEVEL", "info")
+loglevel = _server.log_level

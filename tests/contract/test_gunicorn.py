@@ -108,7 +108,7 @@ def test_gunicorn_refuses_to_start_on_a_broken_registry(tmp_path):
     assert done.returncode != 0
     # One short message, every fault on a line of its own, no traceback.
     assert "Traceback" not in output
-    assert "emulsion service not started: the registry was not accepted: 2 fault(s)" in output
+    assert "emulsion-service: cannot start: the registry was not accepted: 2 fault(s)" in output
     assert "  data/ingredients/olive-oil.toml: values/required_hlb_ow/0/source: unknown source 'nowhere'" in output
     assert "  data/ingredients/castor-oil.toml: id: id 'castor' differs from the file name 'castor-oil'" in output
 
