@@ -131,9 +131,9 @@ def _check_token(token: str, where: str) -> str:
     # The message names where the token is, never the token: a start-up
     # error is logged, and the token must not be.
     if not _B64TOKEN.fullmatch(token):
-        raise ValueError(f"{where}: a token may hold only letters, digits and -._~+/ (then = signs), no spaces")
+        raise SettingError(f"{where}: a token may hold only letters, digits and -._~+/ (then = signs), no spaces")
     if len(token) < MIN_TOKEN_CHARS:
-        raise ValueError(f"{where}: a token of {len(token)} characters is too short to be secret; use at least {MIN_TOKEN_CHARS}")
+        raise SettingError(f"{where}: a token of {len(token)} characters is too short to be secret; use at least {MIN_TOKEN_CHARS}")
     return token
 
 
@@ -149,19 +149,19 @@ def _tokens(env) -> tuple[str, ...]:
         items = [t.strip() for t in listed.split(",")]
         found += [_check_token(t, f"EMULSION_API_TOKENS item {i}") for i, t in enumerate(items, 1) if t]
         if not found:
-            raise ValueError("EMULSION_API_TOKENS is set but holds no token")
+            raise SettingError("EMULSION_API_TOKENS is set but holds no token")
     path = env.get("EMULSION_API_TOKENS_FILE", "")
     if path:
         try:
             lines = Path(path).read_text(encoding="utf-8").splitlines()
         except OSError as exc:
-            raise ValueError(f"EMULSION_API_TOKENS_FILE={path!r}: cannot be read ({exc.strerror or exc})") from None
+            raise SettingError(f"EMULSION_API_TOKENS_FILE={path!r}: cannot be read ({exc.strerror or exc})") from None
         except UnicodeDecodeError:
-            raise ValueError(f"EMULSION_API_TOKENS_FILE={path!r}: not UTF-8 text") from None
+            raise SettingError(f"EMULSION_API_TOKENS_FILE={path!r}: not UTF-8 text") from None
         from_file = [_check_token(line.strip(), f"EMULSION_API_TOKENS_FILE={path!r} line {n}")
                      for n, line in enumerate(lines, 1) if line.strip() and not line.strip().startswith("#")]
         if not from_file:
-            raise ValueError(f"EMULSION_API_TOKENS_FILE={path!r} holds no token (only blank lines or # comments)")
+            raise SettingError(f"EMULSION_API_TOKENS_FILE={path!r} holds no token (only blank lines or # comments)")
         found += from_file
     return tuple(dict.fromkeys(found))
 
@@ -176,7 +176,7 @@ def _origins(env) -> tuple[str, ...]:
 
 def _check_origin(origin: str) -> None:
     if not _ORIGIN.fullmatch(origin):
-        raise ValueError(f"EMULSION_CORS_ORIGINS: {origin!r} is not an exact origin such as https://pharmacy.example or "
+        raise SettingError(f"EMULSION_CORS_ORIGINS: {origin!r} is not an exact origin such as https://pharmacy.example or "
                          "http://127.0.0.1:8080 (lower case; scheme and host, optional port, no path, no trailing slash; * is not accepted)")
 
 
