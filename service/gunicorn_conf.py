@@ -4,7 +4,24 @@ import os
 
 bind = os.environ.get("EMULSION_BIND", "127.0.0.1:8000")
 workers = int(os.environ.get("EMULSION_WORKERS", "2"))
-worker_class = "sync"
+# A sync worker is held by one connection from accept to answer: two idle
+# connections stalled the service for the 30 s timeout and 200 clients sending
+# their headers slowly took it down (tests/benchmarks/slow_clients.py). The
+# gthread worker keeps an idle or kept-alive connection on its poller, not on
+# a thread, and a thread only waits for a client that has begun to send. A
+# client that sends its headers a byte a second still holds a thread, so each
+# worker has many: threads are started only when needed, and an idle one
+# costs a stack, not CPU. The calculation is CPU-bound and short (well under
+# a millisecond), so the GIL is held for little time per request.
+worker_class = "gthread"
+threads = int(os.environ.get("EMULSION_THREADS", "256"))
+# At most this many connections per worker, kept-alive ones included;
+# beyond it the worker stops accepting and the kernel's backlog holds them.
+worker_connections = 1000
+# Short: a kept-alive connection costs no thread, but counts against
+# worker_connections. Raise it above a load balancer's idle timeout if one
+# sits in front (gunicorn's documentation).
+keepalive = 5
 timeout = 30
 graceful_timeout = 25
 max_requests = 5000
