@@ -189,3 +189,35 @@ def test_usr2_then_term_rolls_out_a_new_registry_release_without_a_refused_reque
                 deadline = time.monotonic() + 30
                 while alive(new_master) and time.monotonic() < deadline:
                     time.sleep(0.1)
+
+
+def test_usr2_with_a_refused_registry_leaves_the_old_master_serving(tmp_path):
+    # The new master loads the registry before it starts any worker: a tree it
+    # refuses stops the new master, and the old one goes on with its release.
+    root = tmp_path / "data"
+    shutil.copytree(DEFAULT_ROOT, root)
+    pidfile = tmp_path / "gunicorn.pid"
+    port = free_port()
+    with tempfile.TemporaryFile() as log:
+        proc = start(port, log, "--pid", str(pidfile), env={"EMULSION_REGISTRY_ROOT": str(root)})
+        try:
+            old_version = health(port)
+            path = root / "ingredients" / "olive-oil.toml"
+            text = path.read_text()
+            assert 'source = "martin"' in text
+            path.write_text(text.replace('source = "martin"', 'source = "nowhere"', 1))
+            proc.send_signal(signal.SIGUSR2)
+            deadline = time.monotonic() + 30
+            while "emulsion service not started" not in read_log(log) and time.monotonic() < deadline:
+                time.sleep(0.1)
+            assert "emulsion service not started: the registry was not accepted" in read_log(log)
+            time.sleep(1)
+            assert not Path(f"{pidfile}.2").exists()
+            assert [health(port) for _ in range(5)] == [old_version] * 5
+            assert pid_in(pidfile) == proc.pid
+            proc.send_signal(signal.SIGTERM)
+            assert proc.wait(timeout=30) == 0
+        finally:
+            if proc.poll() is None:
+                proc.kill()
+                proc.wait(timeout=30)
