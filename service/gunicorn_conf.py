@@ -5,7 +5,7 @@ Every setting from the environment is checked here, before gunicorn binds or
 forks: one that cannot work stops the start with one line (service/startup.py)."""
 import os
 
-from service.http.config import ServerSettings, SettingError, Settings
+from service.http.config import ServerSettings, SettingError, Settings, whole_number
 from service.startup import refuse
 
 try:
@@ -13,12 +13,30 @@ try:
     # The application's settings too, so that they are refused before the
     # socket is bound rather than in the middle of gunicorn's start.
     Settings.from_env()
+    _threads = whole_number(os.environ, "EMULSION_THREADS", 256)
 except SettingError as exc:
     refuse(exc)
 
 bind = _server.bind
 workers = _server.workers
-worker_class = "sync"
+# A sync worker is held by one connection from accept to answer: two idle
+# connections stalled the service for the 30 s timeout and 200 clients sending
+# their headers slowly took it down (tests/benchmarks/slow_clients.py). The
+# gthread worker keeps an idle or kept-alive connection on its poller, not on
+# a thread, and a thread only waits for a client that has begun to send. A
+# client that sends its headers a byte a second still holds a thread, so each
+# worker has many: threads are started only when needed, and an idle one
+# costs a stack, not CPU. The calculation is CPU-bound and short (well under
+# a millisecond), so the GIL is held for little time per request.
+worker_class = "gthread"
+threads = _threads
+# At most this many connections per worker, kept-alive ones included;
+# beyond it the worker stops accepting and the kernel's backlog holds them.
+worker_connections = 1000
+# Short: a kept-alive connection costs no thread, but counts against
+# worker_connections. Raise it above a load balancer's idle timeout if one
+# sits in front (gunicorn's documentation).
+keepalive = 5
 timeout = 30
 # A stop (SIGTERM) waits this long for requests in flight, then kills the
 # workers. It must stay below the stop timeout of whatever stops the service,
