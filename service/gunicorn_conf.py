@@ -1,6 +1,28 @@
 """gunicorn settings, always passed with -c (gunicorn otherwise loads any
 ./gunicorn.conf.py it finds). Values measured to suit 2 cores."""
+import glob
 import os
+import shutil
+import tempfile
+
+from service.http import logs as _logs
+
+# prometheus_client's multiprocess mode (service/http/metrics.py): every
+# worker writes its counts to files in this folder and /metrics adds them
+# up. The variable must be set before the app (and prometheus_client) is
+# imported, which gunicorn does after reading this file. Without it, a
+# fresh folder per server start, removed when the server stops.
+_metrics_dir_made = not os.environ.get("PROMETHEUS_MULTIPROC_DIR")
+if _metrics_dir_made:
+    os.environ["PROMETHEUS_MULTIPROC_DIR"] = tempfile.mkdtemp(prefix="emulsion-metrics-")
+else:
+    # A folder given by the environment may hold a previous run's files,
+    # which would be counted again: prometheus_client asks for it emptied at
+    # each start. Here, not in on_starting: the preloaded app writes its
+    # registry gauge before that hook runs.
+    os.makedirs(os.environ["PROMETHEUS_MULTIPROC_DIR"], exist_ok=True)
+    for _path in glob.glob(os.path.join(os.environ["PROMETHEUS_MULTIPROC_DIR"], "*.db")):
+        os.remove(_path)
 
 bind = os.environ.get("EMULSION_BIND", "127.0.0.1:8000")
 workers = int(os.environ.get("EMULSION_WORKERS", "2"))
@@ -15,6 +37,22 @@ preload_app = True
 worker_tmp_dir = "/dev/shm" if os.path.isdir("/dev/shm") else None
 # Two instances (two test servers) would clash on the default control socket.
 control_socket_disable = True
-accesslog = "-"
+# One JSON object a line on stdout, gunicorn's lines and the service's
+# (service/http/logs.py). gunicorn's access log is off: the service logs each
+# request itself, with its id, operation and registry version.
+accesslog = None
 errorlog = "-"
 loglevel = os.environ.get("EMULSION_LOG_LEVEL", "info")
+logconfig_dict = _logs.logconfig(loglevel)
+
+
+def child_exit(server, worker):
+    # A worker's counts stay (they were answered); its live gauges go.
+    from prometheus_client import multiprocess
+
+    multiprocess.mark_process_dead(worker.pid)
+
+
+def on_exit(server):
+    if _metrics_dir_made:
+        shutil.rmtree(os.environ["PROMETHEUS_MULTIPROC_DIR"], ignore_errors=True)
