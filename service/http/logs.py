@@ -29,9 +29,9 @@ def request_id_from(sent: str | None) -> str:
 
 
 def json_formatter() -> JsonFormatter:
-    """time (ISO 8601, UTC), level, logger, message, then every extra field
-    of the record (request_id, status, latency_ms...)."""
-    return JsonFormatter("%(levelname)s %(name)s %(message)s", rename_fields={"levelname": "level", "name": "logger"},
+    """level, logger, pid (which gunicorn worker), message, every extra field
+    of the record (request_id, status, latency_ms...), then time (ISO 8601, UTC)."""
+    return JsonFormatter("%(levelname)s %(name)s %(process)d %(message)s", rename_fields={"levelname": "level", "name": "logger", "process": "pid"},
                          # ASCII only: a path may hold any character, and stdout's encoding is not ours to choose.
                          timestamp="time")
 
