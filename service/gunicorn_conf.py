@@ -1,5 +1,6 @@
 """gunicorn settings, always passed with -c (gunicorn otherwise loads any
 ./gunicorn.conf.py it finds). Values measured to suit 2 cores."""
+import atexit
 import glob
 import os
 import shutil
@@ -11,18 +12,23 @@ from service.http import logs as _logs
 # worker writes its counts to files in this folder and /metrics adds them
 # up. The variable must be set before the app (and prometheus_client) is
 # imported, which gunicorn does after reading this file. Without it, a
-# fresh folder per server start, removed when the server stops.
-_metrics_dir_made = not os.environ.get("PROMETHEUS_MULTIPROC_DIR")
-if _metrics_dir_made:
-    os.environ["PROMETHEUS_MULTIPROC_DIR"] = tempfile.mkdtemp(prefix="emulsion-metrics-")
-else:
+# fresh folder per server start, removed when the master exits (atexit,
+# so also when the app refuses to start; only in the master, since workers
+# exit through SystemExit too).
+if not os.environ.get("PROMETHEUS_MULTIPROC_DIR"):
+    _metrics_dir = os.environ["PROMETHEUS_MULTIPROC_DIR"] = tempfile.mkdtemp(prefix="emulsion-metrics-")
+    _master_pid = os.getpid()
+    atexit.register(lambda: os.getpid() == _master_pid and shutil.rmtree(_metrics_dir, ignore_errors=True))
+elif os.environ.get("EMULSION_METRICS_DIR_OF") != str(os.getpid()):
     # A folder given by the environment may hold a previous run's files,
     # which would be counted again: prometheus_client asks for it emptied at
     # each start. Here, not in on_starting: the preloaded app writes its
-    # registry gauge before that hook runs.
+    # registry gauge before that hook runs. Not again when this master
+    # rereads its settings (SIGHUP): the files are this run's.
     os.makedirs(os.environ["PROMETHEUS_MULTIPROC_DIR"], exist_ok=True)
     for _path in glob.glob(os.path.join(os.environ["PROMETHEUS_MULTIPROC_DIR"], "*.db")):
         os.remove(_path)
+os.environ["EMULSION_METRICS_DIR_OF"] = str(os.getpid())
 
 bind = os.environ.get("EMULSION_BIND", "127.0.0.1:8000")
 workers = int(os.environ.get("EMULSION_WORKERS", "2"))
@@ -52,7 +58,3 @@ def child_exit(server, worker):
 
     multiprocess.mark_process_dead(worker.pid)
 
-
-def on_exit(server):
-    if _metrics_dir_made:
-        shutil.rmtree(os.environ["PROMETHEUS_MULTIPROC_DIR"], ignore_errors=True)
