@@ -20,6 +20,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     from service.http import access, headers
     from service.http.blueprints import calculation_views, estimate_views, ingredient_views, meta_views, worksheet_views
     from service.http.problems import register_error_handlers
+    from service.http import requests_seen
     from service.http.jsonio import StrictJSONProvider
     from service.http.spec import build_spec, spec_json
 
@@ -40,6 +41,8 @@ def create_app(config: Mapping | None = None) -> Flask:
     app.extensions["openapi"] = spec
     app.extensions["openapi_json"] = spec_json(spec)
 
+    # First, so that every later hook and handler sees the request id.
+    requests_seen.install(app, registry.version, spec)
     register_error_handlers(app)
     access.install(app, settings)
     headers.install(app, tokens_required=bool(settings.api_tokens))
@@ -54,5 +57,6 @@ def create_app(config: Mapping | None = None) -> Flask:
     log = logging.getLogger("service")
     for c in registry.collisions:
         log.warning("site overlay: %s: %s: %s", c.site_file, c.field, c.message)
-    log.info("registry %s loaded: %d ingredients", registry.version, len(registry.ingredients))
+    log.info("registry %s loaded: %d ingredients", registry.version, len(registry.ingredients),
+             extra={"registry_version": registry.version, "ingredients": len(registry.ingredients)})
     return app

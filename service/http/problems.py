@@ -6,7 +6,7 @@ from __future__ import annotations
 import logging
 import uuid
 
-from flask import Flask, json, Response
+from flask import Flask, g, has_request_context, json, Response
 from marshmallow import ValidationError
 from werkzeug.exceptions import HTTPException
 
@@ -103,6 +103,9 @@ def problem_response(status: int, title: str, detail: str, *, type_: str = "abou
     if errors is not None:
         body.update(_capped(errors))
     body.update(extra)
+    # The id the caller can quote, the same as in the X-Request-ID header and the log lines.
+    if has_request_context() and g.get("request_id"):
+        body["request_id"] = g.request_id
     response = Response(json.dumps(_encodable(body), indent=2) + "\n", status=status, mimetype=PROBLEM_TYPE)
     for name, value in (headers or {}).items():
         if name.lower() != "content-type":
@@ -159,7 +162,7 @@ def register_error_handlers(app: Flask) -> None:
     @app.errorhandler(Exception)
     def _unexpected(exc: Exception):
         error_id = uuid.uuid4().hex
-        log.exception("unhandled error %s", error_id)
+        log.exception("unhandled error %s", error_id, extra={"error_id": error_id})
         detail = f"an internal error occurred; quote error id {error_id} when reporting it"
         if app.debug:
             detail += f" ({type(exc).__name__}: {exc})"

@@ -21,6 +21,7 @@ from service.http.schemas import responses as answers, worksheet_bodies as works
 from service.http.schemas.fields import Boolean, Number, QueryNumber
 from service.http.schemas.enums import publish as publish_enums
 from service.http.schemas.rules import RuleChecks, published
+from service.http.logs import REQUEST_ID_PATTERN
 
 SPEC_PATH = Path(__file__).resolve().parents[2] / "openapi" / "openapi.json"
 VERSION = "0.1.0"
@@ -121,7 +122,25 @@ OPERATIONS = [
      None, None, ingredients.SourceListSchema, GET_ERRORS, "registry"),
     ("/healthz", "get", "healthz", "Liveness", "200 while the service runs, with the registry version it serves.",
      None, None, meta.HealthSchema, GET_ERRORS, "service"),
+    ("/readyz", "get", "readyz", "Readiness",
+     "200 once the registry is loaded, with the registry version served. The service binds its port only after loading "
+     "the registry, and refuses to start on a broken one, so an answer is always 200.",
+     None, None, meta.ReadySchema, GET_ERRORS, "service"),
 ]
+
+# Every answer carries the request's id; a caller may choose it.
+REQUEST_ID_PARAMETER = {
+    "in": "header", "name": "X-Request-ID", "required": False, "example": "order-2291.line-3",
+    # No pattern in the schema: a value outside it is replaced, not refused.
+    "description": "An id for this request, kept when it is 1 to 128 characters of A-Z, a-z, 0-9, `.`, `_` and `-` "
+                   f"({REQUEST_ID_PATTERN}); any other value is replaced by a generated one. It comes back in the "
+                   "X-Request-ID response header, in every log line of the request and as `request_id` in a problem.",
+    "schema": {"type": "string"},
+}
+REQUEST_ID_RESPONSE_HEADER = {
+    "description": "The request's id: the caller's X-Request-ID when it was kept, else a generated one (32 hex digits).",
+    "required": True, "schema": {"type": "string", "pattern": REQUEST_ID_PATTERN},
+}
 
 
 def build_spec() -> dict:
@@ -155,14 +174,13 @@ def build_spec() -> dict:
             if op_id in EXAMPLES:
                 content["examples"] = EXAMPLES[op_id]
             operation["requestBody"] = {"required": True, "content": {"application/json": content}}
-        parameters = []
+        parameters = [REQUEST_ID_PARAMETER]
         if query is not None:
             parameters.append({"in": "query", "schema": query})
         if "{ingredient_id}" in path:
             parameters.append({"in": "path", "name": "ingredient_id", "required": True, "example": PATH_EXAMPLES[op_id]["ingredient_id"],
                                "schema": {"type": "string", "minLength": 1, "maxLength": 200}})
-        if parameters:
-            operation["parameters"] = parameters
+        operation["parameters"] = parameters
         for code in errors:
             response = {"description": ERRORS[code], "content": PROBLEM}
             if code == "405":
@@ -175,6 +193,8 @@ def build_spec() -> dict:
             operation["responses"]["401"] = {"description": ERRORS["401"], "content": PROBLEM, "headers": {"WWW-Authenticate": {
                 "description": 'The challenge: Bearer realm="emulsion", with error="invalid_token" when a token was refused.',
                 "schema": {"type": "string"}}}}
+        for response in operation["responses"].values():
+            response["headers"] = {**response.get("headers", {}), "X-Request-ID": REQUEST_ID_RESPONSE_HEADER}
         if query is not None:
             _publish_query_relations(operation, query)
         spec.path(path=path, operations={method: operation})

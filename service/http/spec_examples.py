@@ -112,6 +112,7 @@ GET_EXAMPLES = {
     "getIngredient": ("polysorbate_80", "One surfactant with every value", "/v1/ingredients/polysorbate-80"),
     "listSources": ("all", "The bibliography", "/v1/sources"),
     "healthz": ("up", "The service is up", "/healthz"),
+    "readyz": ("ready", "The registry is loaded", "/readyz"),
 }
 QUERY_EXAMPLES = {"listIngredients": {"q": "oleate", "function": "emulsifier"}}
 PATH_EXAMPLES = {"getIngredient": {"ingredient_id": "polysorbate-80"}}

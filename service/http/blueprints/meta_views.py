@@ -1,4 +1,4 @@
-"""Liveness, the OpenAPI document, and its human-readable page."""
+"""Liveness, readiness, metrics, the OpenAPI document, and its human-readable page."""
 from __future__ import annotations
 
 import re
@@ -8,15 +8,33 @@ from markupsafe import Markup, escape
 
 from service.usecases.answers import registry_version
 from service.http.bodies import answer
-from service.http.schemas.meta import HealthSchema
+from service.http import metrics as service_metrics
+from service.http.schemas.meta import HealthSchema, ReadySchema
 
 bp = Blueprint("meta", __name__)
 HEALTH_OUT = HealthSchema()
+READY_OUT = ReadySchema()
 
 
 @bp.get("/healthz")
 def healthz():
     return answer(HEALTH_OUT, {"status": "ok", "registry": registry_version(current_app.extensions["registry"])})
+
+
+@bp.get("/readyz")
+def readyz():
+    # The app is built only once the registry has loaded (create_app raises
+    # otherwise, and gunicorn binds its port only after, with preload_app),
+    # so an app that answers is ready: the registry it serves is named.
+    return answer(READY_OUT, {"status": "ready", "registry": registry_version(current_app.extensions["registry"])})
+
+
+@bp.get("/metrics")
+def metrics():
+    # Prometheus' text exposition format, for a scraper; outside the spec
+    # (like /docs), its format being Prometheus', not this API's.
+    body, content_type = service_metrics.exposition()
+    return Response(body, content_type=content_type)
 
 
 @bp.get("/openapi.json")

@@ -13,6 +13,11 @@ class HealthSchema(Schema):
     registry = fields.Nested(RegistryVersionSchema, required=True)
 
 
+class ReadySchema(Schema):
+    status = fields.String(required=True, metadata={"description": "`ready`: the registry is loaded and calculations are answered."})
+    registry = fields.Nested(RegistryVersionSchema, required=True)
+
+
 class ProblemItemSchema(Schema):
     pointer = fields.String(metadata={"description": "JSON pointer (URI-fragment form) to the offending field of the body."})
     parameter = fields.String(metadata={"description": "The offending query parameter."})
@@ -40,7 +45,8 @@ class ProblemSchema(Schema):
     errors_total = fields.Integer(metadata={"description": "Present when errors were left out: how many faults were found in all."})
     errors_omitted = fields.Integer(metadata={"description": "Present when errors were left out: how many the list leaves out "
                                                   f"(errors_total less {MAX_ERRORS})."})
-    error_id = fields.String()
+    error_id = fields.String(metadata={"description": "For a 500: the id of the error's log line, to quote when reporting it."})
+    request_id = fields.String(metadata={"description": "The request's id, as in the X-Request-ID response header and every log line of the request."})
     suggestions = fields.List(fields.String(), metadata={"description": "For an unknown ingredient in the path: the closest registry ids, best first."})
 
     class Meta:
