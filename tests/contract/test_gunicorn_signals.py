@@ -208,9 +208,9 @@ def test_usr2_with_a_refused_registry_leaves_the_old_master_serving(tmp_path):
             path.write_text(text.replace('source = "martin"', 'source = "nowhere"', 1))
             proc.send_signal(signal.SIGUSR2)
             deadline = time.monotonic() + 30
-            while "emulsion service not started" not in read_log(log) and time.monotonic() < deadline:
+            while "emulsion-service: cannot start" not in read_log(log) and time.monotonic() < deadline:
                 time.sleep(0.1)
-            assert "emulsion service not started: the registry was not accepted" in read_log(log)
+            assert "emulsion-service: cannot start: the registry was not accepted" in read_log(log)
             time.sleep(1)
             assert not Path(f"{pidfile}.2").exists()
             assert [health(port) for _ in range(5)] == [old_version] * 5
