@@ -23,7 +23,14 @@ WORKSHEET_CHECKS = {
     "ionic_compatibility": "No anionic surfactant is combined with a cationic one.",
     "emulsifier_level": "Each surfactant is within the levels usual for it, where the registry records them.",
 }
-CHECKS = {**ROW_CHECKS, **WORKSHEET_CHECKS}
+# Checks of the amounts actually taken against a worksheet (POST /v1/worksheets/amounts-taken).
+TAKEN_CHECKS = {
+    "taken_within_tolerance": "The amount taken deviates from the row's unrounded target by no more than the allowed percentage.",
+    "taken_at_least_minimum_weighable": "A mass taken on the balance is at or above its minimum weighable quantity (USP <1176>).",
+    "every_row_taken": "Every row of the worksheet has an amount taken recorded.",
+    "final_weight_within_tolerance": "The finished preparation weighs the batch mass within the tolerance given (default: the balance's acceptable error).",
+}
+CHECKS = {**ROW_CHECKS, **WORKSHEET_CHECKS, **TAKEN_CHECKS}
 
 # Warnings: something a pharmacist should read before relying on the answer.
 FINDINGS = {
@@ -58,6 +65,8 @@ ANSWER_WARNINGS = {
     "optimum_not_bracketed": "The best test is at the edge of the series: the required HLB may lie outside it.",
     "no_candidate_pair": "No registry pair reaches the target.",
     "rounding_residue_to_largest_share": "A formula stated in full has no q.s. vehicle: its largest share takes the rounding residue.",
+    "taken_converted_with_density": "An amount taken was given as a volume for a weighed row, or as a mass for a measured one, and converted with the row's density.",
+    "worksheet_checks_failed": "The worksheet the amounts were checked against has failed checks of its own, judged on the worksheet.",
 }
 WARNINGS = {**FINDINGS, **PROVENANCE_WARNINGS, **ANSWER_WARNINGS,
             **{f"check_{code}": f"A check failed: {meaning}" for code, meaning in CHECKS.items()}}
@@ -108,7 +117,10 @@ REFUSALS = {
     "finite_result": "The inputs give a finite result.",
     "aliquot_weighable": "The aliquot is at least the minimum weighable quantity.",
     "below_minimum_weighable": "An aliquot is planned only for an amount below the minimum weighable quantity.",
-    "positive": "An aliquot is planned for a positive amount.",
+    "positive": "An aliquot is planned for a positive amount (or a deviation or yield for a positive target).",
+    "taken_row_exists": "An amount taken names a row the worksheet has.",
+    "taken_row_once": "Each worksheet row has at most one amount taken.",
+    "taken_ingredient_matches_row": "An amount taken that names an ingredient names the one on its row.",
 }
 
-__all__ = ["ANSWER_WARNINGS", "CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "REFUSALS", "ROW_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]
+__all__ = ["ANSWER_WARNINGS", "CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "REFUSALS", "ROW_CHECKS", "TAKEN_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]

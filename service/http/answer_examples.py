@@ -15,6 +15,7 @@ RESPONSE_EXAMPLES_PATH = Path(__file__).resolve().parents[2] / "openapi" / "resp
 POST_PATHS = {
     "blendHlb": "/v1/blends/hlb", "blendProportions": "/v1/blends/proportions", "oilPhaseRequiredHlb": "/v1/oil-phases/required-hlb",
     "emulsifierMinimum": "/v1/emulsifier/minimum", "createWorksheet": "/v1/worksheets", "rescaleWorksheet": "/v1/worksheets/rescale",
+    "checkAmountsTaken": "/v1/worksheets/amounts-taken",
     "candidatePairs": "/v1/candidate-pairs", "hlbEstimate": "/v1/hlb-estimates", "requiredHlbSeriesPlan": "/v1/required-hlb-series/plan",
     "requiredHlbSeriesEvaluate": "/v1/required-hlb-series/evaluate",
 }
