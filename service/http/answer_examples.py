@@ -20,7 +20,7 @@ POST_PATHS = {
     "requiredHlbSeriesEvaluate": "/v1/required-hlb-series/evaluate",
 }
 # Operations whose example is also recorded as the Markdown worksheet.
-MARKDOWN = ("createWorksheet",)
+MARKDOWN = ("createWorksheet", "checkAmountsTaken")
 
 
 def record(app) -> dict:

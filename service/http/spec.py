@@ -94,8 +94,8 @@ OPERATIONS = [
      "The amounts actually weighed or measured for a batch, against the worksheet recomputed from its request: each row's deviation "
      "from its unrounded target against the equipment's acceptable error, a mass below the balance's minimum weighable quantity "
      "flagged, the rows not taken, the batch total, the final weight and the yield, and whether the record may pass to the checking "
-     "pharmacist, with every reason it may not. Nothing is stored.",
-     taken.AmountsTakenRequestSchema, None, taken.AmountsTakenAnswerSchema, BODY_ERRORS, "worksheets"),
+     "pharmacist, with every reason it may not. Nothing is stored. JSON, or the same record as text with Accept: text/markdown or text/plain.",
+     taken.AmountsTakenRequestSchema, None, taken.AmountsTakenAnswerSchema, SHEET_ERRORS, "worksheets"),
     ("/v1/candidate-pairs", "post", "candidatePairs", "Candidate surfactant pairs",
      "Registry pairs that reach a target HLB (or an oil phase's required HLB), ranked: one fatty-chain family first, "
      "balanced proportions, nonionic before ionic; filterable by ionic class.",

@@ -200,3 +200,18 @@ def test_the_record_can_reuse_a_worksheet_answers_result(client):
     via_http = post(client, taken(r4=(6.03, "g")), final_weight={"value": 198.6, "unit": "g"}).get_json()["result"]
     assert result["may_pass_to_checker"] is False and result["reasons"] == via_http["reasons"]
     assert result["rows"][4]["deviation_percent"] == pytest.approx(via_http["rows"][4]["deviation_percent"])
+
+
+def test_the_record_as_markdown_and_plain_text(client):
+    sheet = copy.deepcopy(SHEET)
+    sheet["ingredients"][5]["inline"]["name"] = "Fragrance | # (demo)"
+    body = {"worksheet": sheet, "taken": taken(r4=(6.03, "g"), r5=None)}
+    md = client.post(TAKEN, json=body, headers={"Accept": "text/markdown"})
+    assert md.status_code == 200 and md.mimetype == "text/markdown"
+    text = md.get_data(as_text=True)
+    assert "DO NOT PASS TO THE CHECKER: 2 check(s) failed" in text
+    # A name can add no cell or heading: its pipe and hash are escaped.
+    assert "Fragrance \\| \\# (demo)" in text and "| 4 | Polysorbate 80 | weigh | 6.36 g | 6.35514 | 6.03 g | -5.12 % | 5 % | CHECK: taken_within_tolerance |" in text
+    plain = client.post(TAKEN, json=body, headers={"Accept": "text/plain"}).get_data(as_text=True)
+    assert "!!! DO NOT PASS TO THE CHECKER" in plain and "row 5: Glycerin" in plain and "Fragrance | # (demo)" in plain
+    assert client.post(TAKEN, json=body, headers={"Accept": "image/png"}).status_code == 406

@@ -1,6 +1,6 @@
 """The batch worksheet, its rescaling, the amounts taken for it, and
-candidate pairs, under /v1. The worksheet is JSON, or text when the request
-asks for text/markdown or text/plain."""
+candidate pairs, under /v1. The worksheet and the amounts taken are JSON, or
+text when the request asks for text/markdown or text/plain."""
 from __future__ import annotations
 
 from flask import Blueprint, Response, request
@@ -9,6 +9,7 @@ from service.usecases import amounts_taken, pairs, worksheet
 from service.http.blueprints.calculation_views import _registry, _strict
 from service.http.bodies import answer, load_body
 from service.http.problems import ApiProblem
+from service.http.taken_text import taken_text
 from service.http.worksheet_text import worksheet_text
 from service.http.schemas import amounts_taken_bodies, worksheet_bodies as schemas
 
@@ -30,11 +31,15 @@ def _negotiated() -> str:
     return best
 
 
-def _sheet(payload: dict, media: str) -> Response:
+def _as(schema, render, payload: dict, media: str) -> Response:
+    """The answer as JSON, or rendered as text in the media type asked."""
     if media == "application/json":
-        return answer(SHEET_OUT, payload)
-    dumped = SHEET_OUT.dump(payload)
-    return Response(worksheet_text(dumped, markdown=media == "text/markdown"), mimetype=media)
+        return answer(schema, payload)
+    return Response(render(schema.dump(payload), markdown=media == "text/markdown"), mimetype=media)
+
+
+def _sheet(payload: dict, media: str) -> Response:
+    return _as(SHEET_OUT, worksheet_text, payload, media)
 
 
 @bp.post("/worksheets")
@@ -53,8 +58,9 @@ def rescale_worksheet():
 
 @bp.post("/worksheets/amounts-taken")
 def check_amounts_taken():
+    media = _negotiated()
     data = load_body(TAKEN_IN)
-    return answer(TAKEN_OUT, amounts_taken.amounts_taken(data, _registry(), _strict(data["worksheet"])))
+    return _as(TAKEN_OUT, taken_text, amounts_taken.amounts_taken(data, _registry(), _strict(data["worksheet"])), media)
 
 
 @bp.post("/candidate-pairs")
