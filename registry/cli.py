@@ -23,7 +23,8 @@ from typing import Sequence
 
 from registry import review
 from registry.diff import diff_lines
-from registry.display import functions_lines, ingredient_data, summary_data, value_lines
+from registry.display import (bud_data, bud_lines, dispersibility_data, dispersibility_lines, functions_lines, ingredient_data,
+                              processing_lines, summary_data, value_lines)
 from registry.errors import RegistryError, RegistryFaults
 from registry.loader import DEFAULT_ROOT, check_tree, load_registry
 from registry.lookup import closest, either
@@ -144,10 +145,31 @@ def cmd_list(args) -> int:
     return 0
 
 
+# The shared tables `show --table` prints, each by its printed lines and its JSON.
+TABLES = {"beyond-use-dates": ("beyond_use_dates", bud_lines, bud_data),
+          "water-dispersibility": ("water_dispersibility", dispersibility_lines, dispersibility_data)}
+
+
+def _show_table(args, registry) -> int:
+    attribute, lines, data = TABLES[args.table]
+    table = getattr(registry, attribute)
+    if args.json:
+        _json({"version": registry.version, attribute: data(registry, table)})
+        return 0
+    for line in lines(registry, table):
+        _out(line)
+    return 0
+
+
 def cmd_show(args) -> int:
+    if (args.id is None) == (args.table is None):
+        _err("error: show needs an ingredient id or --table, not both")
+        return 2
     registry = _load(args)
     if registry is None:
         return 1
+    if args.table:
+        return _show_table(args, registry)
     ing = registry.get(args.id)
     if ing is None:
         near = closest(registry, args.id)
@@ -165,7 +187,7 @@ def cmd_show(args) -> int:
         _out(f"  formula: {ing.molecular_formula}")
     if ing.note:
         _out(f"  note: {ing.note}")
-    for line in functions_lines(registry, ing.functions_record):
+    for line in functions_lines(registry, ing.functions_record) + processing_lines(registry, ing.processing):
         _out(line)
     for prop in PROPERTIES:
         records = ing.values.get(prop, ())
@@ -197,6 +219,15 @@ def cmd_report(args) -> int:
                        ("oil_phase_lacking_required_hlb_wo", "oil phase lacking a W/O required HLB"), ("surfactants_lacking_hlb", "surfactants lacking an HLB")]:
         _out(f"{label} ({len(data[key])}): {', '.join(data[key]) or 'none'}")
     _out(f"functions unverified: {len(data['functions_unverified'])} of {data['current_ingredients']} current ingredients")
+    _out(f"solid or semisolid lacking a melting range ({len(data['solid_lacking_melting_range'])}): "
+         f"{', '.join(data['solid_lacking_melting_range']) or 'none'}")
+    proc = data["processing"]
+    _out(f"processing records: {proc['records']} ({proc['unverified']} unverified); volatile: {', '.join(proc['volatile']) or 'none'}; "
+         f"surfactants without dissolves_in ({len(proc['surfactants_lacking_dissolves_in'])}): "
+         f"{', '.join(proc['surfactants_lacking_dissolves_in']) or 'none'}")
+    for name, table in data["tables"].items():
+        _out(f"table {name}: {table['entries']} entries, by status: " + ", ".join(f"{k} {v}" for k, v in table["by_status"].items())
+             + f"; recalled from memory {table['recalled_from_memory']}")
     _out(f"doubtful values ({len(data['doubtful_values'])}): "
          + (", ".join(f"{d['ingredient']} {d['property']} ({d['source']})" for d in data["doubtful_values"]) or "none"))
     _out(f"sources disagreeing by more than {args.threshold:g} HLB units or {args.density_threshold:g} g/mL ({len(data['disagreements'])}):")
@@ -289,8 +320,9 @@ def parser() -> argparse.ArgumentParser:
     sp.add_argument("--role", choices=["surfactant", "oil_phase", "aqueous_phase", "hydrocolloid"])
     sp.add_argument("--all", action="store_true", help="include retired records")
     sp.set_defaults(fn=cmd_list)
-    sp = tree(sub.add_parser("show", help="one ingredient, every value and its provenance"))
-    sp.add_argument("id")
+    sp = tree(sub.add_parser("show", help="one ingredient, every value and its provenance; or a shared table (--table)"))
+    sp.add_argument("id", nargs="?", default=None)
+    sp.add_argument("--table", choices=sorted(TABLES), help="show a shared table instead of an ingredient")
     sp.set_defaults(fn=cmd_show)
     sp = tree(sub.add_parser("report", help="provenance coverage and disagreements"))
     sp.add_argument("--threshold", type=float, default=2.0, help="HLB units of disagreement to report (default 2)")

@@ -5,7 +5,7 @@ from __future__ import annotations
 from registry import review
 from dataclasses import fields
 
-from registry.model import PROPERTIES, FunctionsRecord, Registry, ValueRecord
+from registry.model import PROPERTIES, FunctionsRecord, ProcessingRecord, Registry, ValueRecord
 
 
 # The figure as the `list` command prints it; a diff holds no overlay values,
@@ -37,6 +37,10 @@ def diff_lines(old: Registry, new: Registry) -> tuple[list[str], list[str], list
             va, vb = getattr(a.functions_record, f.name, None), getattr(b.functions_record, f.name, None)
             if va != vb:
                 changes.append(f"~ {iid} functions: {f.name} {va!r} -> {vb!r}")
+        for f in fields(ProcessingRecord):
+            va, vb = getattr(a.processing, f.name, None), getattr(b.processing, f.name, None)
+            if va != vb:
+                changes.append(f"~ {iid} processing: {f.name} {va!r} -> {vb!r}")
         for prop in PROPERTIES:
             olds = {key: r for key, (_, r) in review.keyed(a.values.get(prop, ())).items()}
             news = {key: r for key, (_, r) in review.keyed(b.values.get(prop, ())).items()}
@@ -55,6 +59,7 @@ def diff_lines(old: Registry, new: Registry) -> tuple[list[str], list[str], list
                     judged = review.review_change(ra, rb)
                     if judged is not None:
                         reviews.append((f"{'~' if judged.renewed else '!'} {label}: {judged.text}", judged.renewed))
+    changes += _table_lines(old, new)
     for sid in sorted(set(old.sources) - set(new.sources)):
         deletions.append(f"- source {sid} deleted (sources are only ever added)")
     for sid in sorted(set(new.sources) - set(old.sources)):
@@ -62,3 +67,21 @@ def diff_lines(old: Registry, new: Registry) -> tuple[list[str], list[str], list
     if old.release == new.release and old.digest != new.digest:
         changes.append(f"! the content changed but the release is still {new.release}: bump it in registry.toml")
     return changes, deletions, reviews
+
+
+def _table_lines(old: Registry, new: Registry) -> list[str]:
+    """What changed in the shared tables: beyond-use-date categories and
+    rules by id, and Griffin's bands as a whole."""
+    lines = []
+    a = {c.id: c for c in old.beyond_use_dates.categories} if old.beyond_use_dates else {}
+    b = {c.id: c for c in new.beyond_use_dates.categories} if new.beyond_use_dates else {}
+    for cid in sorted(set(a) | set(b)):
+        if a.get(cid) != b.get(cid):
+            what = "new" if cid not in a else "removed" if cid not in b else "changed"
+            lines.append(f"~ beyond-use-date category {cid}: {what}")
+    ra = dict(old.beyond_use_dates.rules) if old.beyond_use_dates else {}
+    rb = dict(new.beyond_use_dates.rules) if new.beyond_use_dates else {}
+    lines += [f"~ beyond-use-date rule {rid}: changed" for rid in sorted(set(ra) | set(rb)) if ra.get(rid) != rb.get(rid)]
+    if old.water_dispersibility != new.water_dispersibility:
+        lines.append("~ water dispersibility table: changed")
+    return lines

@@ -6,7 +6,8 @@ from __future__ import annotations
 from dataclasses import fields
 
 from registry.lookup import labels
-from registry.model import PROPERTIES, UNITS, FunctionsRecord, Ingredient, Registry, ValueRecord
+from registry.model import (PROPERTIES, UNITS, BudTable, FunctionsRecord, Ingredient, ProcessingRecord, Provenance, Registry, ValueRecord,
+                            WaterDispersibilityTable)
 
 
 def _detail_lines(items: list[tuple[str, object]]) -> list[str]:
@@ -30,6 +31,7 @@ def value_lines(registry: Registry, record: ValueRecord) -> list[str]:
         ("locator", record.locator), ("kind", record.kind), ("method", record.method), ("status", record.status),
         ("reviewed", " on ".join(filter(None, [record.reviewed_by, record.reviewed_on])) or None),
         ("temperature", f"{record.temperature_c:g} degC" if record.temperature_c is not None else None),
+        ("basis", record.basis if record.property == "melting_range" else None),
         ("conditions", record.conditions), ("why preferred", record.preferred_reason), ("why doubtful", record.doubtful_reason),
         ("note", record.note), ("retired", f"{record.retired_on}: {record.retired_reason}" if record.retired else None)])
 
@@ -43,6 +45,51 @@ def functions_lines(registry: Registry, record: FunctionsRecord | None) -> list[
     return ["functions:", f"  {', '.join(record.functions)}{marks}", f"    source: {source.id}: {source.citation}"] + _detail_lines([
         ("locator", record.locator), ("status", record.status),
         ("reviewed", " on ".join(filter(None, [record.reviewed_by, record.reviewed_on])) or None), ("note", record.note)])
+
+
+def processing_lines(registry: Registry, record: ProcessingRecord | None) -> list[str]:
+    """How the ingredient is handled in making the preparation, with where that is said."""
+    if record is None:
+        return []
+    source = registry.sources[record.source_id]
+    facts = [f"dissolved or dispersed in the {record.dissolves_in} phase" if record.dissolves_in else None,
+             "volatile" if record.volatile else None, "heat-sensitive" if record.heat_sensitive else None]
+    marks = "  [recalled from memory]" if record.recalled_from_memory else ""
+    return ["processing:", f"  {'; '.join(filter(None, facts))}{marks}", f"    source: {source.id}: {source.citation}"] + _detail_lines([
+        ("locator", record.locator), ("status", record.status),
+        ("reviewed", " on ".join(filter(None, [record.reviewed_by, record.reviewed_on])) or None), ("note", record.note)])
+
+
+def _provenance_lines(registry: Registry, origin: Provenance) -> list[str]:
+    source = registry.sources[origin.source_id]
+    return _detail_lines([("source", f"{source.id}: {source.citation}"), ("locator", origin.locator), ("status", origin.status),
+                          ("recalled from memory", "yes" if origin.recalled_from_memory else None),
+                          ("reviewed", " on ".join(filter(None, [origin.reviewed_by, origin.reviewed_on])) or None),
+                          ("note", origin.note)])
+
+
+def bud_lines(registry: Registry, table: BudTable) -> list[str]:
+    """The beyond-use-date table: its categories, its rules, each with its provenance."""
+    lines = ["beyond-use dates (nonsterile preparations):"] + _provenance_lines(registry, table.provenance)
+    for c in table.categories:
+        facts = [c.water] + ([("preserved" if c.preserved else "not preserved")] if c.preserved is not None else []) + (
+            [f"form {c.form}"] if c.form else [])
+        lines.append(f"  {c.id}: {c.days} days, {' or '.join(s.replace('_', ' ') for s in c.storage)}  ({', '.join(facts)})")
+        lines += ["  " + line for line in _provenance_lines(registry, c.provenance)]
+    lines.append("rules:")
+    for rule in table.rules.values():
+        lines.append(f"  {rule.id}: {rule.text}" + (f"  [{rule.value:g}]" if rule.value is not None else ""))
+        lines += ["  " + line for line in _provenance_lines(registry, rule.provenance)]
+    return lines
+
+
+def dispersibility_lines(registry: Registry, table: WaterDispersibilityTable) -> list[str]:
+    """Griffin's bands of HLB by behaviour in water, and where each is put."""
+    lines = ["water dispersibility by HLB:"] + _provenance_lines(registry, table.provenance)
+    for b in table.bands:
+        span = f"{b.low:g}-{b.high:g}" if b.high is not None else f"{b.low:g} and over"
+        lines.append(f"  {span}: {b.description}; dissolved in the {b.dissolves_in} phase")
+    return lines
 
 
 def _source(registry: Registry, source_id: str) -> dict:
@@ -65,6 +112,32 @@ def functions_data(registry: Registry, record: FunctionsRecord | None) -> dict |
     return data | {"functions": list(record.functions), "source": _source(registry, record.source_id)}
 
 
+def processing_data(registry: Registry, record: ProcessingRecord | None) -> dict | None:
+    if record is None:
+        return None
+    data = {f.name: getattr(record, f.name) for f in fields(ProcessingRecord) if f.name != "source_id"}
+    return data | {"source": _source(registry, record.source_id)}
+
+
+def _provenance_data(registry: Registry, origin: Provenance) -> dict:
+    data = {f.name: getattr(origin, f.name) for f in fields(Provenance) if f.name != "source_id"}
+    return data | {"source": _source(registry, origin.source_id)}
+
+
+def bud_data(registry: Registry, table: BudTable) -> dict:
+    return {"provenance": _provenance_data(registry, table.provenance), "aw_threshold": table.aw_threshold,
+            "categories": [{"id": c.id, "description": c.description, "water": c.water, "preserved": c.preserved, "form": c.form,
+                            "days": c.days, "storage": list(c.storage), "provenance": _provenance_data(registry, c.provenance)}
+                           for c in table.categories],
+            "rules": {rid: {"text": r.text, "value": r.value, "provenance": _provenance_data(registry, r.provenance)}
+                      for rid, r in table.rules.items()}}
+
+
+def dispersibility_data(registry: Registry, table: WaterDispersibilityTable) -> dict:
+    return {"provenance": _provenance_data(registry, table.provenance),
+            "bands": [{"low": b.low, "high": b.high, "description": b.description, "dissolves_in": b.dissolves_in} for b in table.bands]}
+
+
 def _preferred(ing: Ingredient, prop: str) -> dict | None:
     record = ing.preferred(prop)
     if record is None:
@@ -81,8 +154,9 @@ def summary_data(ing: Ingredient) -> dict:
 
 def ingredient_data(registry: Registry, ing: Ingredient) -> dict:
     """Everything `show` prints, as data: the record, what it does, every value."""
-    data = {f.name: getattr(ing, f.name) for f in fields(Ingredient) if f.name not in ("values", "functions", "functions_record")}
+    data = {f.name: getattr(ing, f.name) for f in fields(Ingredient)
+            if f.name not in ("values", "functions", "functions_record", "processing")}
     data.update(roles=list(ing.roles), synonyms=list(ing.synonyms), lookup_names=labels(registry, ing),
-                functions=functions_data(registry, ing.functions_record),
+                functions=functions_data(registry, ing.functions_record), processing=processing_data(registry, ing.processing),
                 values={prop: [value_data(registry, r) for r in ing.values.get(prop, ())] for prop in PROPERTIES})
     return data

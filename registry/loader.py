@@ -15,13 +15,13 @@ from pathlib import Path
 
 from registry.errors import RegistryError, RegistryFaults
 from registry.model import Ingredient, OverlayCollision, Registry, frozen_mapping
-from registry.records import (Faults, davies, folder_fault, ingredient, override, read_toml, rel, release, sources_table,
-                              toml_files, under)
+from registry.records import (Faults, beyond_use_dates, davies, folder_fault, ingredient, override, read_toml, rel, release,
+                              sources_table, toml_files, under)
 from registry.validation import SCHEMA_DIR, schema_faults, validator
 
 PACKAGE_DIR = Path(__file__).resolve().parent
 DEFAULT_ROOT = PACKAGE_DIR / "data"
-TREE_FILES = ("registry.toml", "sources.toml", "davies_groups.toml", "ingredients")
+TREE_FILES = ("registry.toml", "sources.toml", "davies_groups.toml", "beyond_use_dates.toml", "ingredients")
 
 __all__ = ["DEFAULT_ROOT", "SCHEMA_DIR", "TREE_FILES", "TreeCheck", "check_tree", "load_registry"]
 
@@ -109,11 +109,14 @@ class _Builder:
             self.files[iid] = file
 
     def _override(self, shipped: Ingredient, data: dict, faults: Faults, sources: dict | None, bad: set) -> None:
-        if "functions" in data:
-            # The overlay adds local values; what a shipped ingredient does is the
-            # registry's statement, and a local one could not be told apart.
-            faults.add("functions", "a site overlay cannot change a shipped ingredient's functions (a whole site record, "
+        # The overlay adds local values; what a shipped ingredient does, and
+        # how it is handled, are the registry's statements, and a local one
+        # could not be told apart.
+        refused = [table for table in ("functions", "processing") if table in data]
+        for table in refused:
+            faults.add(table, f"a site overlay cannot change a shipped ingredient's {table} (a whole site record, "
                        "with its own name and [functions], would set the shipped one aside: see registry/FIELDS.md)")
+        if refused:
             record = None
         else:
             record = override(shipped, data, faults, sources, bad)
@@ -189,8 +192,8 @@ def _build(root: Path, overlay: Path | None) -> TreeCheck:
     if fault is not None:
         return TreeCheck(None, [fault])
     b = _Builder()
-    release_path, sources_path, davies_path = (root / name for name in TREE_FILES[:3])
-    for required in (release_path, sources_path, davies_path, root / "ingredients"):
+    release_path, sources_path, davies_path, bud_path = (root / name for name in TREE_FILES[:4])
+    for required in (release_path, sources_path, davies_path, bud_path, root / "ingredients"):
         if not os.path.lexists(required):
             return TreeCheck(None, [RegistryError(rel(required, root), "(file)", "missing from the registry tree")])
     fault = folder_fault(root / "ingredients", rel(root / "ingredients", root), "the registry's ingredients/")
@@ -200,6 +203,7 @@ def _build(root: Path, overlay: Path | None) -> TreeCheck:
     sources = b.table(sources_path, root, sources_table, False)
     tables = b.table(release_path, root, release, sources)
     groups = b.table(davies_path, root, davies, sources)
+    buds = b.table(bud_path, root, beyond_use_dates, sources)
     listed = _tree_files(b, root / "ingredients", root)
     ingredient_paths = listed or []
     for path in ingredient_paths:
@@ -212,15 +216,15 @@ def _build(root: Path, overlay: Path | None) -> TreeCheck:
     if overlay is not None:
         all_sources, overlay_paths = _overlay(b, Path(overlay), sources)
 
-    if b.errors or tables is None or groups is None:
+    if b.errors or tables is None or groups is None or buds is None:
         return TreeCheck(None, b.errors, b.collisions)
-    release_number, hlb_ranges, levels = tables
+    release_number, hlb_ranges, levels, dispersibility = tables
     registry = Registry(
         release=release_number,
         # The data files only: reviewed.lock.toml is derived from them (see
         # registry/review.py), and the service never reads it.
         # Digests are taken only once every file was read as a regular file.
-        digest=_digest(root, [release_path, sources_path, davies_path, *ingredient_paths]),
+        digest=_digest(root, [release_path, sources_path, davies_path, bud_path, *ingredient_paths]),
         ingredients=frozen_mapping(b.ingredients),
         sources=frozen_mapping(all_sources),
         hlb_ranges=hlb_ranges,
@@ -231,13 +235,15 @@ def _build(root: Path, overlay: Path | None) -> TreeCheck:
         names=frozen_mapping(b.names),
         shadowed=frozen_mapping(b.shadowed),
         collisions=tuple(b.collisions),
+        water_dispersibility=dispersibility,
+        beyond_use_dates=buds,
     )
     return TreeCheck(registry, [], b.collisions)
 
 
 def load_registry(root: Path | str = DEFAULT_ROOT, overlay: Path | str | None = None) -> Registry:
     """Load and validate the registry tree at `root` (registry.toml,
-    sources.toml, davies_groups.toml, ingredients/), with an optional site
+    sources.toml, davies_groups.toml, beyond_use_dates.toml, ingredients/), with an optional site
     overlay folder (ingredients/, optional sources.toml). Raises
     RegistryFaults (a RegistryError naming the first) listing every fault.
     Where the overlay meets shipped records, `Registry.collisions` says how."""

@@ -1,5 +1,6 @@
 """Frozen records of the registry. Numbers are in canonical units: HLB and
-required HLB are dimensionless, densities are g/mL, molar masses g/mol."""
+required HLB are dimensionless, densities are g/mL, molar masses g/mol,
+melting ranges degrees Celsius; beyond-use dates are whole days."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field
@@ -13,8 +14,17 @@ WATER_DENSITY_25C_G_PER_ML = 0.9970476
 # figure outside is a slip of unit, in a data file or in a request.
 PLAUSIBLE_DENSITY_G_PER_ML = (0.05, 25.0)
 
-PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo", "density", "molar_mass")
-UNITS = {"density": "g/mL", "molar_mass": "g/mol"}
+PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo", "density", "molar_mass", "melting_range")
+UNITS = {"density": "g/mL", "molar_mass": "g/mol", "melting_range": "degC"}
+# What a melting-range figure is (its `basis`): the pharmacopoeias state
+# waxes, fats and surfactants by one of these, each measured its own way.
+MELTING_BASES = ("melting_range", "congealing_range", "drop_point")
+# Where a component is dissolved or dispersed before the phases are combined.
+PHASES = ("oil", "water")
+# USP <795> beyond-use-date categories: water content and dosage form.
+BUD_WATER = ("aqueous", "nonaqueous")
+BUD_FORMS = ("oral_liquid", "other", "solid")
+BUD_STORAGE = ("refrigerator", "controlled_room_temperature")
 STATUSES = ("unverified", "checked_against_source", "measured")
 KINDS = ("primary_literature", "handbook", "textbook", "pharmacopeia", "standard", "calculated", "in_house_measurement")
 # What an ingredient does in a formula; the schema's $defs/function holds the
@@ -86,11 +96,10 @@ class ValueRecord:
 
 
 @dataclass(frozen=True)
-class FunctionsRecord:
-    """What an ingredient does in a formula (names from FUNCTIONS), with the
-    provenance of that statement, checked by the same rules as a value's."""
+class Provenance:
+    """Where one statement comes from (a record's [functions] or [processing],
+    a row of a shared table), checked by the same rules as a value's."""
 
-    functions: tuple[str, ...]
     source_id: str
     status: str
     recalled_from_memory: bool = False
@@ -102,6 +111,26 @@ class FunctionsRecord:
     @property
     def is_verified(self) -> bool:
         return self.status != "unverified"
+
+
+@dataclass(frozen=True, kw_only=True)
+class FunctionsRecord(Provenance):
+    """What an ingredient does in a formula (names from FUNCTIONS), with the
+    provenance of that statement."""
+
+    functions: tuple[str, ...]
+
+
+@dataclass(frozen=True, kw_only=True)
+class ProcessingRecord(Provenance):
+    """How an ingredient is handled when the preparation is made: the phase it
+    is dissolved or dispersed in before emulsifying (None when not recorded),
+    whether it is volatile (added after heating, to the cooled preparation)
+    and whether heat harms it; with the provenance of that statement."""
+
+    dissolves_in: str | None = None  # "oil" | "water"
+    volatile: bool = False
+    heat_sensitive: bool = False
 
 
 @dataclass(frozen=True)
@@ -127,6 +156,8 @@ class Ingredient:
     # Empty (and no record) only for a retired ingredient that never had one.
     functions: tuple[str, ...] = ()
     functions_record: FunctionsRecord | None = None
+    # How it is handled in making the preparation; None when not recorded.
+    processing: ProcessingRecord | None = None
 
     def active(self, prop: str) -> tuple[ValueRecord, ...]:
         return tuple(r for r in self.values.get(prop, ()) if not r.retired)
@@ -217,6 +248,136 @@ class EmulsifierLevelTable:
 
 
 @dataclass(frozen=True)
+class DispersibilityBand:
+    """One of Griffin's bands of HLB by how a surfactant behaves in water.
+    `high` is None for the open top band; `dissolves_in` is the phase such a
+    surfactant is put in before emulsifying (the rule is in the data file)."""
+
+    low: float
+    high: float | None
+    description: str
+    dissolves_in: str
+
+
+@dataclass(frozen=True)
+class WaterDispersibilityTable:
+    """Griffin's bands, lowest first, with the table's provenance."""
+
+    bands: tuple[DispersibilityBand, ...]
+    source_id: str
+    status: str
+    recalled_from_memory: bool
+    locator: str | None = None
+    note: str | None = None
+    reviewed_by: str | None = None
+    reviewed_on: str | None = None
+
+    @property
+    def provenance(self) -> Provenance:
+        return Provenance(self.source_id, self.status, self.recalled_from_memory, self.locator, self.note,
+                          self.reviewed_by, self.reviewed_on)
+
+    def band_for(self, hlb: float) -> DispersibilityBand:
+        """The band an HLB falls in. The published bands overlap at their
+        ends (1-4 and 3-6): a figure in two is given the higher band, the one
+        whose low end it has reached. A figure below the lowest band is in it
+        (nothing disperses less than "no dispersibility"); the top band is open."""
+        if hlb < 0:
+            raise ValueError(f"an HLB is not negative (got {hlb:g})")
+        chosen = self.bands[0]
+        for band in self.bands:
+            if hlb >= band.low:
+                chosen = band
+        return chosen
+
+
+class WithProvenance:
+    """The provenance fields of a record that holds its Provenance, read
+    through: `record.source_id` as for a value."""
+
+    provenance: Provenance
+
+    @property
+    def source_id(self) -> str:
+        return self.provenance.source_id
+
+    @property
+    def status(self) -> str:
+        return self.provenance.status
+
+    @property
+    def locator(self) -> str | None:
+        return self.provenance.locator
+
+    @property
+    def recalled_from_memory(self) -> bool:
+        return self.provenance.recalled_from_memory
+
+    @property
+    def note(self) -> str | None:
+        return self.provenance.note
+
+
+@dataclass(frozen=True)
+class BudCategory(WithProvenance):
+    """One default beyond-use-date category of USP <795> for a nonsterile
+    preparation. `preserved` and `form` are None where the category does not
+    depend on them."""
+
+    id: str
+    description: str
+    water: str  # "aqueous" (water activity at or above the threshold) | "nonaqueous"
+    days: int
+    storage: tuple[str, ...]
+    provenance: Provenance
+    preserved: bool | None = None
+    form: str | None = None  # "oral_liquid" | "other" | "solid"
+
+
+@dataclass(frozen=True)
+class BudRule:
+    """A rule that holds for every category (a limit, where and when to count
+    from), stated in words, with a figure where it has one."""
+
+    id: str
+    text: str
+    provenance: Provenance
+    value: float | None = None
+
+
+@dataclass(frozen=True)
+class BudTable(WithProvenance):
+    """The default beyond-use dates of USP <795>: the categories, the rules
+    over them (`rules` by id: aw_threshold, component_expiry, count_from),
+    and the provenance of the table as a whole."""
+
+    categories: tuple[BudCategory, ...]
+    rules: Mapping[str, BudRule]
+    provenance: Provenance
+
+    @property
+    def aw_threshold(self) -> float:
+        """Water activity at and above which a preparation is aqueous."""
+        return float(self.rules["aw_threshold"].value)
+
+    def water_class(self, water_activity: float) -> str:
+        return "aqueous" if water_activity >= self.aw_threshold else "nonaqueous"
+
+    def category(self, water: str, preserved: bool | None = None, form: str | None = None) -> BudCategory | None:
+        """The one category for a preparation, or None when none fits or the
+        facts given do not decide between several (say whether an aqueous
+        preparation is preserved; give a nonaqueous one's form). A category
+        naming no `preserved` or `form` fits any; one whose form is "other"
+        fits every form no category of the same water class names."""
+        same = [c for c in self.categories if c.water == water]
+        named = {c.form for c in same if c.form not in (None, "other")}
+        fits = [c for c in same
+                if (c.preserved is None or c.preserved == preserved)
+                and (c.form is None or c.form == form or (c.form == "other" and form is not None and form not in named))]
+        return fits[0] if len(fits) == 1 else None
+
+
+@dataclass(frozen=True)
 class DaviesGroup:
     """A Davies group number: its preferred value and any others recorded."""
 
@@ -278,6 +439,8 @@ class Registry:
     # the review lock still sees every shipped value.
     shadowed: Mapping[str, Ingredient] = field(default_factory=dict)
     collisions: tuple[OverlayCollision, ...] = ()
+    water_dispersibility: WaterDispersibilityTable | None = None
+    beyond_use_dates: BudTable | None = None
 
     @property
     def version(self) -> str:

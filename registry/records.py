@@ -20,15 +20,22 @@ from registry.model import (
     PROPERTIES,
     PLAUSIBLE_DENSITY_G_PER_ML,
     WATER_DENSITY_25C_G_PER_ML,
+    BudCategory,
+    BudRule,
+    BudTable,
     DaviesGroup,
+    DispersibilityBand,
     EmulsifierLevel,
     EmulsifierLevelTable,
     FunctionsRecord,
     HlbRange,
     HlbRangeTable,
     Ingredient,
+    ProcessingRecord,
+    Provenance,
     Source,
     ValueRecord,
+    WaterDispersibilityTable,
     frozen_mapping,
 )
 from registry.units import density_factor_to_g_per_ml
@@ -205,6 +212,27 @@ def functions_record(data: dict, faults: Faults, sources: dict | None) -> Functi
     )
 
 
+def provenance(raw: dict, faults: Faults, sources: dict | None, field: str) -> Provenance:
+    """The provenance fields of a statement (the schema's attribution), its source checked."""
+    known_source(raw["source"], sources, faults, f"{field}/source" if field else "source")
+    return Provenance(source_id=raw["source"], status=raw["status"], recalled_from_memory=raw.get("recalled_from_memory", False),
+                      locator=raw.get("locator"), note=raw.get("note"), reviewed_by=raw.get("reviewed_by"),
+                      reviewed_on=raw.get("reviewed_on"))
+
+
+def processing_record(data: dict, faults: Faults, sources: dict | None) -> ProcessingRecord | None:
+    """The optional [processing] table; the schema has checked its fields."""
+    raw = data.get("processing")
+    if raw is None:
+        return None
+    known_source(raw["source"], sources, faults, "processing/source")
+    return ProcessingRecord(
+        source_id=raw["source"], status=raw["status"], dissolves_in=raw.get("dissolves_in"), volatile=raw.get("volatile", False),
+        heat_sensitive=raw.get("heat_sensitive", False), recalled_from_memory=raw.get("recalled_from_memory", False),
+        locator=raw.get("locator"), note=raw.get("note"), reviewed_by=raw.get("reviewed_by"), reviewed_on=raw.get("reviewed_on"),
+    )
+
+
 def under(paths: set[tuple], prefix: tuple) -> bool:
     return any(p[:len(prefix)] == prefix for p in paths)
 
@@ -215,6 +243,7 @@ def ingredient(data: dict, faults: Faults, sources: dict | None, local: bool, ba
     the others still run."""
     before = len(faults)
     functions = None if under(bad, ("functions",)) else functions_record(data, faults, sources)
+    processing = None if under(bad, ("processing",)) else processing_record(data, faults, sources)
     values = {}
     raw_values = data.get("values") if isinstance(data.get("values"), dict) else {}
     for prop in PROPERTIES:
@@ -232,7 +261,7 @@ def ingredient(data: dict, faults: Faults, sources: dict | None, local: bool, ba
         viscous=data.get("viscous", False), hlb_is_apparent=data.get("hlb_is_apparent", False),
         note=data.get("note"), retired=data.get("retired", False), retired_on=data.get("retired_on"),
         retired_reason=data.get("retired_reason"), local=local, values=frozen_mapping(values),
-        functions=functions.functions if functions else (), functions_record=functions,
+        functions=functions.functions if functions else (), functions_record=functions, processing=processing,
     )
 
 
@@ -283,14 +312,72 @@ def _emulsifier_levels(data: dict, faults: Faults, sources: dict | None) -> Emul
     return EmulsifierLevelTable(tuple(families), table["source"], table["status"], table.get("recalled_from_memory", False))
 
 
-def release(data: dict, faults: Faults, sources: dict | None) -> tuple[str, HlbRangeTable, EmulsifierLevelTable] | None:
+def _water_dispersibility(data: dict, faults: Faults, sources: dict | None) -> WaterDispersibilityTable:
+    """Griffin's bands, lowest first: each band's low end above the last's,
+    none open but the top one, and no gap between one band and the next."""
+    table = data["water_dispersibility"]
+    where = "water_dispersibility"
+    origin = provenance(table, faults, sources, where)
+    bands = []
+    for i, b in enumerate(table["bands"]):
+        field = f"{where}/bands/{i}"
+        high = b.get("high")
+        if high is not None and b["low"] > high:
+            faults.add(f"{field}/low", "low is greater than high")
+        if high is None and i != len(table["bands"]) - 1:
+            faults.add(f"{field}/high", "only the top band may be open (without high)")
+        if bands and b["low"] <= bands[-1].low:
+            faults.add(f"{field}/low", "bands run from the lowest HLB up: this one starts no higher than the one before")
+        elif bands and bands[-1].high is not None and b["low"] > bands[-1].high:
+            faults.add(f"{field}/low", f"leaves a gap after the band before, which ends at {bands[-1].high:g}")
+        bands.append(DispersibilityBand(float(b["low"]), None if high is None else float(high), b["description"], b["dissolves_in"]))
+    return WaterDispersibilityTable(tuple(bands), origin.source_id, origin.status, origin.recalled_from_memory, origin.locator,
+                                    origin.note, origin.reviewed_by, origin.reviewed_on)
+
+
+def release(data: dict, faults: Faults, sources: dict | None) -> tuple[str, HlbRangeTable, EmulsifierLevelTable, WaterDispersibilityTable] | None:
     """registry.toml's release number and tables, or None (its faults recorded)."""
     for _, error in schema_faults(data, validator("release.schema.json"), faults.file):
         faults.errors.append(error)
     if faults.errors:
         return None
-    tables = data["release"], _hlb_ranges(data, faults, sources), _emulsifier_levels(data, faults, sources)
+    tables = (data["release"], _hlb_ranges(data, faults, sources), _emulsifier_levels(data, faults, sources),
+              _water_dispersibility(data, faults, sources))
     return None if faults.errors else tables
+
+
+def _overlapping(a: BudCategory, b: BudCategory) -> bool:
+    """Whether one preparation could fit both categories (same water class)."""
+    preserved = a.preserved is None or b.preserved is None or a.preserved == b.preserved
+    form = a.form is None or b.form is None or a.form == b.form
+    return a.water == b.water and preserved and form
+
+
+def beyond_use_dates(data: dict, faults: Faults, sources: dict | None) -> BudTable | None:
+    """beyond_use_dates.toml's categories and rules, or None (its faults
+    recorded). Categories have unique ids, and no preparation fits two."""
+    for _, error in schema_faults(data, validator("beyond_use_dates.schema.json"), faults.file):
+        faults.errors.append(error)
+    if faults.errors:
+        return None
+    table = provenance(data["table"], faults, sources, "table")
+    rules = {rid: BudRule(rid, raw["text"], provenance(raw, faults, sources, f"rules/{rid}"), raw.get("value"))
+             for rid, raw in data["rules"].items()}
+    categories: list[BudCategory] = []
+    for i, raw in enumerate(data["categories"]):
+        field = f"categories/{i}"
+        category = BudCategory(raw["id"], raw["description"], raw["water"], raw["days"], tuple(raw["storage"]),
+                               provenance(raw, faults, sources, field), raw.get("preserved"), raw.get("form"))
+        for other in categories:
+            if other.id == category.id:
+                faults.add(f"{field}/id", f"id '{category.id}' is used by another category")
+            elif _overlapping(other, category):
+                faults.add(field, f"a preparation could fit both this category and '{other.id}': "
+                           "give each a preserved or form that tells them apart")
+        categories.append(category)
+    if faults.errors:
+        return None
+    return BudTable(tuple(categories), frozen_mapping(rules), table)
 
 
 def davies(data: dict, faults: Faults, sources: dict | None) -> dict[str, DaviesGroup] | None:

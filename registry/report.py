@@ -11,7 +11,9 @@ from registry.model import Registry
 def report_data(registry: Registry, hlb_threshold: float, density_threshold: float) -> dict:
     """Counts by status and kind, what lacks a value, unverified functions,
     doubtful values, and properties whose current values span more than
-    `hlb_threshold` HLB units or `density_threshold` g/mL."""
+    `hlb_threshold` HLB units or `density_threshold` g/mL; the processing
+    records, and the shared tables (beyond-use dates, water dispersibility)
+    by status."""
     records = [r for ing in registry.ingredients.values() for prop in ing.values for r in ing.active(prop)]
     records += [r for g in registry.davies_groups.values() for r in g.values if not r.retired]
     current = [ing for ing in registry.ingredients.values() if not ing.retired]
@@ -43,6 +45,35 @@ def report_data(registry: Registry, hlb_threshold: float, density_threshold: flo
         "doubtful_values": [{"ingredient": ing.id, "property": prop, "source": r.source_id, "reason": r.doubtful_reason}
                             for ing in current for prop in ing.values for r in ing.active(prop) if r.doubtful],
         "disagreements": disagreements,
+        "solid_lacking_melting_range": sorted(i.id for i in current if i.physical_state != "liquid" and not i.active("melting_range")),
+        "processing": _processing(current),
+        "tables": _tables(registry),
         "hlb_coverage": hlb_coverage(registry).as_dict(),
         "thresholds": {"hlb": hlb_threshold, "density_g_per_ml": density_threshold},
     }
+
+
+def _processing(current: list) -> dict:
+    records = [i.processing for i in current if i.processing]
+    return {"records": len(records), "unverified": sum(not r.is_verified for r in records),
+            "volatile": sorted(i.id for i in current if i.processing and i.processing.volatile),
+            "heat_sensitive": sorted(i.id for i in current if i.processing and i.processing.heat_sensitive),
+            "surfactants_lacking_dissolves_in": sorted(i.id for i in current if "surfactant" in i.roles
+                                                       and not (i.processing and i.processing.dissolves_in))}
+
+
+def _tables(registry: Registry) -> dict:
+    """Each shared table's entries (a table-level statement counts as one)
+    by status, and how many were recalled from memory."""
+    out = {}
+    buds = registry.beyond_use_dates
+    if buds is not None:
+        origins = [buds.provenance] + [c.provenance for c in buds.categories] + [r.provenance for r in buds.rules.values()]
+        out["beyond_use_dates"] = {"entries": len(origins), "categories": len(buds.categories), "rules": len(buds.rules),
+                                   "by_status": dict(sorted(Counter(o.status for o in origins).items())),
+                                   "recalled_from_memory": sum(o.recalled_from_memory for o in origins)}
+    bands = registry.water_dispersibility
+    if bands is not None:
+        out["water_dispersibility"] = {"entries": len(bands.bands), "by_status": {bands.status: len(bands.bands)},
+                                       "recalled_from_memory": len(bands.bands) if bands.recalled_from_memory else 0}
+    return out

@@ -18,7 +18,7 @@ from typing import Iterable
 
 from registry.errors import RegistryError
 from registry.loader import DEFAULT_ROOT
-from registry.model import Registry, ValueRecord
+from registry.model import BudTable, Provenance, Registry, ValueRecord
 
 LOCK_NAME = "reviewed.lock.toml"
 LOCK_FORMAT = 1
@@ -36,7 +36,9 @@ HEADER = """\
 #
 # One [[value]] per value whose status is checked_against_source or measured,
 # as it stood when reviewed (registry/FIELDS.md, "The review rule"):
-#   file, property (group, for a Davies group number)   where the value stands
+#   file, property (group, for a Davies group number)   where the value stands;
+#       a beyond-use-date category or rule is property bud_category or
+#       bud_rule, group its id, and its figure the days or the rule's value
 #   source, basis, temperature_c, nth                   which value it is; nth
 #       counts from 0 in file order among values sharing source, basis and
 #       temperature, and is left out when 0
@@ -87,14 +89,45 @@ def _not_renewed(old_reviewed_on: str | None, new: ValueRecord) -> str:
 class Located:
     file: str  # relative to the tree's root, as the lock records it
     where: str  # the list's field path, as the loader names fields
-    index: int
+    index: int | str  # a rule of the beyond-use-date table is named, not numbered
     record: ValueRecord
+
+
+BUD_FILE = "beyond_use_dates.toml"
+
+
+def _as_value(prop: str, origin: Provenance, figure: float | None) -> ValueRecord:
+    """A beyond-use-date category or rule seen as a value, so that the lock
+    holds it by the same rule: its figure (days, or the rule's value), its
+    locator and its status."""
+    recorded = {} if figure is None else {"value": figure}
+    low = 0.0 if figure is None else float(figure)
+    return ValueRecord(property=prop, low=low, high=low, source_id=origin.source_id, kind="pharmacopeia", status=origin.status,
+                       locator=origin.locator, reviewed_by=origin.reviewed_by, reviewed_on=origin.reviewed_on,
+                       recalled_from_memory=origin.recalled_from_memory, recorded=recorded)
+
+
+def _bud_entries(table: BudTable | None) -> dict[tuple, Located]:
+    """The beyond-use-date categories (by id: their days) and rules (by id:
+    the threshold's figure, or the text's locator and status alone)."""
+    if table is None:
+        return {}
+    out = {}
+    for i, c in enumerate(table.categories):
+        record = _as_value("bud_category", c.provenance, c.days)
+        out[(BUD_FILE, "bud_category", c.id, c.source_id, None, None, 0)] = Located(BUD_FILE, "categories", i, record)
+    for rid, rule in table.rules.items():
+        record = _as_value("bud_rule", rule.provenance, rule.value)
+        out[(BUD_FILE, "bud_rule", rid, rule.provenance.source_id, None, None, 0)] = Located(BUD_FILE, "rules", rid, record)
+    return out
 
 
 def located(registry: Registry) -> dict[tuple, Located]:
     """Every shipped value of the tree by (file, property, group, source,
     basis, temperature, nth). Site-overlay values are the site's, not under
-    the shipped lock; a shipped record a site record set aside still is."""
+    the shipped lock; a shipped record a site record set aside still is.
+    The beyond-use-date categories and rules are held as values (their
+    storage is not: a change to it shows in `diff`)."""
     shipped = [ing for ing in registry.ingredients.values() if not ing.local] + list(registry.shadowed.values())
     lists = [(f"ingredients/{ing.id}.toml", prop, None, [r for r in records if not r.local])
              for ing in shipped for prop, records in ing.values.items()]
@@ -104,7 +137,7 @@ def located(registry: Registry) -> dict[tuple, Located]:
         where = f"groups/{group}/values" if group else f"values/{prop}"
         for key, (i, record) in keyed(records).items():
             out[(file, prop, group) + key] = Located(file, where, i, record)
-    return out
+    return out | _bud_entries(registry.beyond_use_dates)
 
 
 def _entry(identity: tuple, record: ValueRecord) -> dict:
@@ -180,7 +213,8 @@ def compare(registry: Registry, root: Path | str) -> tuple[list[RegistryError], 
         loc = tree.get(ident)
         file = f"{root.name}/{entry['file']}"
         if loc is None:
-            where = f"groups/{entry['group']}/values" if entry.get("group") else f"values/{entry['property']}"
+            where = {"bud_category": "categories", "bud_rule": "rules"}.get(entry["property"]) or (
+                f"groups/{entry['group']}/values" if entry.get("group") else f"values/{entry['property']}")
             broken.append(RegistryError(file, where, f"the {entry['status']} value from source '{entry['source']}' is gone: a value is "
                                         "retired, never deleted, and one with another source, basis or temperature is a new value"))
             continue

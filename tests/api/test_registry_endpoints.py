@@ -45,6 +45,16 @@ def test_one_ingredient_with_provenance(client):
     assert density["unit"] == "g/mL"
 
 
+def test_a_melting_range_is_shown_in_degc_with_its_basis(client):
+    # USP 32-NF 27, Petrolatum: "Melting range, Class III 741: between 38 and 60."
+    body = client.get("/v1/ingredients/petrolatum").get_json()["ingredient"]
+    (melting,) = body["values"]["melting_range"]
+    assert (melting["low"], melting["high"], melting["unit"], melting["basis"]) == (38.0, 60.0, "degC", "melting_range")
+    assert melting["status"] == "checked_against_source" and melting["locator"]
+    # A liquid has none.
+    assert client.get("/v1/ingredients/olive-oil").get_json()["ingredient"]["values"]["melting_range"] == []
+
+
 def test_unknown_ingredient_is_404(client):
     r = client.get("/v1/ingredients/no-such-thing")
     assert r.status_code == 404

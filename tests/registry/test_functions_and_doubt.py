@@ -271,5 +271,5 @@ def test_every_schema_field_is_in_fields_md():
     functions_fields = set(defs["functions"]["properties"]) | set(defs["attribution"]["properties"])
     assert functions_fields <= _documented(_fields_md_table("What an ingredient does: `[functions]`"))
     value_fields = set(defs["provenance"]["properties"]) | set(defs["attribution"]["properties"])
-    value_fields |= {k for d in ("hlb_value", "density_value", "molar_mass_value") for k in defs[d]["properties"]}
+    value_fields |= {k for d in ("hlb_value", "density_value", "molar_mass_value", "melting_value") for k in defs[d]["properties"]}
     assert value_fields <= _documented(_fields_md_table("A value"))

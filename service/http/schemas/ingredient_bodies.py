@@ -34,7 +34,7 @@ class ValueRecordSchema(Schema):
     figure = fields.Float(required=True, metadata={"description": "The figure a calculation uses: the value, or the midpoint of a range."})
     low = fields.Float(required=True)
     high = fields.Float(required=True)
-    unit = fields.String(required=True, allow_none=True, metadata={"description": "g/mL for densities; null for HLB values."})
+    unit = fields.String(required=True, allow_none=True, metadata={"description": "g/mL for densities, g/mol for molar masses, degC for melting ranges; null for HLB values."})
     recorded = fields.Dict(keys=fields.String(), values=fields.Float(), required=True, metadata={"description": "The value as written in the data file (a specific gravity stays a specific gravity)."})
     recorded_unit = fields.String(required=True, allow_none=True, metadata={"description": "The unit it was written in, where it has one."})
     basis = fields.String(required=True, allow_none=True)
@@ -66,6 +66,8 @@ class IngredientValuesSchema(Schema):
     required_hlb_wo = fields.List(fields.Nested(ValueRecordSchema), required=True)
     density = fields.List(fields.Nested(ValueRecordSchema), required=True)
     molar_mass = fields.List(fields.Nested(ValueRecordSchema), required=True)
+    melting_range = fields.List(fields.Nested(ValueRecordSchema), required=True, metadata={
+        "description": "Melting, congealing or drop-point ranges, degC (`basis` says which)."})
 
 
 class IngredientSummarySchema(Schema):
