@@ -23,7 +23,11 @@ WORKSHEET_CHECKS = {
     "ionic_compatibility": "No anionic surfactant is combined with a cationic one.",
     "emulsifier_level": "Each surfactant is within the levels usual for it, where the registry records them.",
 }
-CHECKS = {**ROW_CHECKS, **WORKSHEET_CHECKS}
+RECORD_CHECKS = {
+    "component_expiries_given": "Every component of a compounding record has its expiry date, so the beyond-use date is final.",
+    "component_lots_given": "Every component of a compounding record has its supplier and lot.",
+}
+CHECKS = {**ROW_CHECKS, **WORKSHEET_CHECKS, **RECORD_CHECKS}
 
 # Warnings: something a pharmacist should read before relying on the answer.
 FINDINGS = {
@@ -58,6 +62,10 @@ ANSWER_WARNINGS = {
     "optimum_not_bracketed": "The best test is at the edge of the series: the required HLB may lie outside it.",
     "no_candidate_pair": "No registry pair reaches the target.",
     "rounding_residue_to_largest_share": "A formula stated in full has no q.s. vehicle: its largest share takes the rounding residue.",
+    "unverified_bud_category": "The beyond-use category used is not yet checked against the chapter it cites.",
+    "procedure_phase_unknown": "The registry holds no phase for a component: the procedure leaves where it goes to the pharmacist.",
+    "melting_range_unknown": "A solid or semisolid has no melting range on record: heat until melted, by the material's specification.",
+    "high_process_temperature": "The oil phase must be heated near the aqueous phase's boiling point.",
 }
 WARNINGS = {**FINDINGS, **PROVENANCE_WARNINGS, **ANSWER_WARNINGS,
             **{f"check_{code}": f"A check failed: {meaning}" for code, meaning in CHECKS.items()}}
@@ -109,6 +117,15 @@ REFUSALS = {
     "aliquot_weighable": "The aliquot is at least the minimum weighable quantity.",
     "below_minimum_weighable": "An aliquot is planned only for an amount below the minimum weighable quantity.",
     "positive": "An aliquot is planned for a positive amount.",
+    "date_format": "A date is a real calendar day, YYYY-MM-DD, in a plausible year.",
+    "expiry_date_format": "An expiry is a real date, YYYY-MM-DD, or a month, YYYY-MM.",
+    "component_not_expired": "No component has expired before the compounding date.",
+    "bud_category_decidable": "The beyond-use category can be decided from the formula and the record's inputs.",
+    "preservative_named": "A preparation stated preserved names its preservative among the components.",
+    "storage_for_bud_category": "The storage stated is one the beyond-use category allows.",
+    "component_in_worksheet": "A record's component is one of the worksheet's.",
+    "one_entry_per_component": "Each worksheet component is given at most once in the record.",
+    "dosage_form_suits_route": "The dosage form suits the route (an oral preparation is an emulsion).",
 }
 
-__all__ = ["ANSWER_WARNINGS", "CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "REFUSALS", "ROW_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]
+__all__ = ["ANSWER_WARNINGS", "CHECKS", "RECORD_CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "REFUSALS", "ROW_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]

@@ -19,13 +19,13 @@ PAIRS_IN, PAIRS_OUT = schemas.CandidateRequestSchema(), schemas.CandidateAnswerS
 OFFERED = ["application/json", "text/markdown", "text/plain"]
 
 
-def _negotiated() -> str:
+def negotiated(offered: list[str] = OFFERED) -> str:
     """The media type to answer in; 406 when the client accepts none of ours."""
     if not request.headers.get("Accept"):
         return "application/json"
-    best = request.accept_mimetypes.best_match(OFFERED)
+    best = request.accept_mimetypes.best_match(offered)
     if best is None:
-        raise ApiProblem(406, "Not Acceptable", f"this resource is available as {', '.join(OFFERED)}")
+        raise ApiProblem(406, "Not Acceptable", f"this resource is available as {', '.join(offered)}")
     return best
 
 
@@ -38,14 +38,14 @@ def _sheet(payload: dict, media: str) -> Response:
 
 @bp.post("/worksheets")
 def create_worksheet():
-    media = _negotiated()
+    media = negotiated()
     data = load_body(SHEET_IN)
     return _sheet(worksheet.worksheet(data, _registry(), _strict(data)), media)
 
 
 @bp.post("/worksheets/rescale")
 def rescale_worksheet():
-    media = _negotiated()
+    media = negotiated()
     data = load_body(RESCALE_IN)
     return _sheet(worksheet.rescale(data, _registry(), _strict(data["worksheet"])), media)
 
