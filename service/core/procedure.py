@@ -123,8 +123,10 @@ def procedure(emulsion_type: str, rows: list[ProcedureRow], batch_g: float) -> P
         keep = " Keep back part of the q.s. vehicle, to make up to weight at the end." if qs else ""
         steps.append(("aqueous", f"Aqueous phase: in a second vessel dissolve or disperse {_names(aqueous)}.{keep}", *placed(aqueous)))
     if other:
-        steps.append(("other", f"{_names(other)}: the service holds no data on which phase these go into; add each as the formula's "
-                      "reference directs.", PHARMACIST, "no registry data on the phase: the pharmacist decides"))
+        which = "it goes" if len(other) == 1 else "they go"
+        steps.append(("other", f"{_names(other)}: the service holds no data on which phase {which} into; add "
+                      f"{'it' if len(other) == 1 else 'each'} as the formula's reference directs.", PHARMACIST,
+                      "no registry data on the phase: the pharmacist decides"))
         findings.append(Finding("procedure_phase_unknown", subject="other", message=f"no phase is known for {', '.join(r.label for r in other)}: the procedure leaves it to the pharmacist"))
 
     if heated:
