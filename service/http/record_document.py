@@ -37,9 +37,9 @@ def record_blocks(answer: dict) -> list[Block]:
     readability = sheet["equipment"]["balance"]["readability_g"]
     blocks = [Block("h1", f"Compounding record: {prep['name']}")]
     if not r["complete"]:
-        n = len(r["required_elements"]["to_fill"]) + sum(not k["ok"] for k in r["checks"])
-        blocks.append(Block("banner", f"INCOMPLETE: {n} item(s) still to fill or resolve (listed under 'To fill'). A decision aid for a "
-                                      "qualified pharmacist: check every figure before use."))
+        n = len(r["required_elements"]["to_fill_before_compounding"]) + sum(not k["ok"] for k in r["checks"])
+        blocks.append(Block("banner", f"INCOMPLETE: {n} item(s) to give or resolve before compounding (listed under 'To fill' and "
+                                      "'Checks'). A decision aid for a qualified pharmacist: check every figure before use."))
     if sheet["checks_failed"]:
         blocks.append(Block("banner", f"CHECK BEFORE WEIGHING: {sheet['checks_failed']} worksheet check(s) failed; see 'Checks'."))
     blocks.append(Block("p", f"Registry {answer['registry']['version']}" + ("; strict mode" if answer["strict"] else "")))

@@ -192,7 +192,9 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
     }
     out["required_elements"] = required_elements(out, {"source": source_block(registry.sources[table.source_id]),
                                                        "status": table.status, "recalled_from_memory": True})
-    out["complete"] = not out["required_elements"]["to_fill"] and all(k["ok"] for k in record_checks)
+    # Complete for compounding: all the request can give is given; the quality
+    # results are written at the bench.
+    out["complete"] = not out["required_elements"]["to_fill_before_compounding"] and all(k["ok"] for k in record_checks)
     # The worksheet's provenance warnings are made again over all the values used.
     warnings = [w for w in sheet["warnings"] if w["code"] not in PROVENANCE_CODES] + finding_warnings(proc.findings)
     warnings += [{"code": f"check_{k['code']}", "subject": None, "message": k["message"]} for k in record_checks if not k["ok"]]

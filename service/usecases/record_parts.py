@@ -66,14 +66,21 @@ def _filled(result: dict, where: str) -> bool:
     return True
 
 
+# Filled in at the bench, after compounding: never by the request.
+AT_THE_BENCH = ("quality_checks/results",)
+
+
 def required_elements(result: dict, source: dict) -> dict:
     """Each required element with where the record holds it and whether it
-    is filled in; `to_fill` lists what a person must still complete."""
+    is filled in; `to_fill` lists what a person must still complete, and
+    `to_fill_before_compounding` what the request could have given."""
     def listed(elements):
-        return [{"element": e, "where": f"#/result/{w.split('/expected')[0].split('/results')[0]}", "filled": _filled(result, w)} for e, w in elements]
+        return [{"element": e, "where": f"#/result/{w.split('/expected')[0].split('/results')[0]}", "filled": _filled(result, w),
+                 "at_the_bench": w in AT_THE_BENCH} for e, w in elements]
     mfr, cr = listed(MASTER_FORMULATION_ELEMENTS), listed(COMPOUNDING_RECORD_ELEMENTS)
     to_fill = list(dict.fromkeys(x["element"] for x in mfr + cr if not x["filled"]))
-    return {"master_formulation_record": mfr, "compounding_record": cr, "to_fill": to_fill, **source,
+    before = list(dict.fromkeys(x["element"] for x in mfr + cr if not x["filled"] and not x["at_the_bench"]))
+    return {"master_formulation_record": mfr, "compounding_record": cr, "to_fill": to_fill, "to_fill_before_compounding": before, **source,
             "note": "The required elements as the chapter lists them, written from memory of it: confirm against the chapter in force."}
 
 

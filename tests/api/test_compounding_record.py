@@ -216,3 +216,40 @@ def test_the_text_forms_carry_every_quantity_and_the_date(client, accept, markdo
     assert "2027-01-06" in text and "Lot" in text and "LMO-2611" in text
     assert ("# Compounding record" in text) == markdown
     assert "INCOMPLETE" in text and "________" in text
+
+
+# The required elements of USP <795> (2023) sections 7.2 (master formulation
+# record) and 7.3 (compounding record), as this test writes them FROM MEMORY
+# of the chapter (not read: the stored copies of the chapter could not be
+# read that far); state rules read that follow it list the same kinds of
+# item (e.g. N.J.A.C. 13:39-11A; Wisconsin Phar 15), with differences.
+MFR_FROM_MEMORY = ("name, strength or activity, and dosage form", "identities and amounts of all components", "container closure",
+                   "instructions", "physical description", "beyond-use date and storage", "reference source",
+                   "quality control procedures")
+CR_FROM_MEMORY = ("name, strength or activity, and dosage form", "date", "identification number", "compounded it and the person who verified",
+                  "supplier or manufacturer, lot number and expiry date", "weight or measure of each component", "total quantity",
+                  "beyond-use date and storage", "calculations", "physical description", "results of the quality control", "master formulation record")
+
+
+def test_the_required_elements_are_the_chapters(client):
+    elements = _post(client, DEMO).get_json()["result"]["required_elements"]
+    mfr = " | ".join(e["element"].lower() for e in elements["master_formulation_record"])
+    cr = " | ".join(e["element"].lower() for e in elements["compounding_record"])
+    for item in MFR_FROM_MEMORY:
+        assert item in mfr, item
+    for item in CR_FROM_MEMORY:
+        assert item in cr, item
+    assert elements["recalled_from_memory"] and elements["status"] == "unverified"
+
+
+def test_a_record_with_everything_given_is_complete_for_compounding(client):
+    body = _body()
+    body["compounding"]["checked_by"] = "CD (demo)"
+    res = _post(client, body).get_json()["result"]
+    assert res["complete"]
+    assert res["required_elements"]["to_fill_before_compounding"] == []
+    # The quality results stay to fill at the bench.
+    assert res["required_elements"]["to_fill"] == ["Results of the quality control procedures"]
+    body["preparation"].pop("container")
+    res = _post(client, body).get_json()["result"]
+    assert not res["complete"] and res["required_elements"]["to_fill_before_compounding"] == ["Container closure system"]

@@ -208,12 +208,14 @@ class ElementSchema(Schema):
     element = fields.String(required=True)
     where = fields.String(required=True, metadata={"description": "JSON pointer into the answer."})
     filled = fields.Boolean(required=True)
+    at_the_bench = fields.Boolean(required=True, metadata={"description": "Filled in by hand after compounding (the quality results), never by the request."})
 
 
 class RequiredElementsSchema(ProvenanceOutSchema):
     master_formulation_record = fields.List(fields.Nested(ElementSchema), required=True)
     compounding_record = fields.List(fields.Nested(ElementSchema), required=True)
     to_fill = fields.List(fields.String(), required=True)
+    to_fill_before_compounding = fields.List(fields.String(), required=True, metadata={"description": "What the request could have given and did not."})
     note = fields.String(required=True)
     locator = fields.String(allow_none=True)
 
@@ -252,7 +254,7 @@ class RecordResultSchema(Schema):
     worksheet = fields.Nested(WorksheetResultSchema, required=True)
     paper = fields.String(required=True)
     required_elements = fields.Nested(RequiredElementsSchema, required=True)
-    complete = fields.Boolean(required=True, metadata={"description": "Every required element filled in and every record check passed."})
+    complete = fields.Boolean(required=True, metadata={"description": "Ready to compound: every element the request can give is given and every record check passed; the quality results are filled in at the bench."})
 
 
 class RecordInputsSchema(Schema):
