@@ -29,6 +29,15 @@ RECORD_CHECKS = {
 }
 CHECKS = {**ROW_CHECKS, **WORKSHEET_CHECKS, **RECORD_CHECKS}
 
+# Quality checks a compounding record leaves to record at the bench, each
+# with a pass/fail field (`passed`, null until filled).
+QUALITY_CHECKS = {
+    "appearance": "Colour, texture and uniformity against the description; no lumps, grit or foreign matter.",
+    "phase_separation": "No separation, creaming or oil droplets after standing.",
+    "ph": "The pH, where the preparation has an aqueous phase, against the range given.",
+    "final_weight": "The finished preparation's weight against the batch, within the tolerance.",
+}
+
 # Warnings: something a pharmacist should read before relying on the answer.
 FINDINGS = {
     "ionic_incompatibility": "An anionic and a cationic surfactant are combined: they are expected to interact.",
@@ -128,4 +137,4 @@ REFUSALS = {
     "dosage_form_suits_route": "The dosage form suits the route (an oral preparation is an emulsion).",
 }
 
-__all__ = ["ANSWER_WARNINGS", "CHECKS", "RECORD_CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "REFUSALS", "ROW_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]
+__all__ = ["ANSWER_WARNINGS", "CHECKS", "QUALITY_CHECKS", "RECORD_CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "REFUSALS", "ROW_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]

@@ -8,6 +8,7 @@ from marshmallow import Schema, fields
 
 from service.http.schemas.fields import Boolean, BoundedList, FullMatch, Number, ingredient_id, one_of, text
 from service.http.schemas.responses import AmountOutSchema, CitationSchema, answer
+from service.http.schemas.enums import enum_field
 from service.http.schemas.rules import RuleChecks, exactly_one, not_above
 from service.http.schemas.worksheet_bodies import MAX_INGREDIENTS, CheckSchema, WorksheetRequestSchema, WorksheetResultSchema
 
@@ -196,7 +197,7 @@ class LabelSchema(Schema):
 
 
 class QualityCheckSchema(Schema):
-    code = fields.String(required=True)
+    code = enum_field("QualityCheckCode", required=True)
     check = fields.String(required=True)
     expected = fields.String(required=True)
     result = fields.String(required=True, allow_none=True)
