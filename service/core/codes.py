@@ -27,7 +27,15 @@ RECORD_CHECKS = {
     "component_expiries_given": "Every component of a compounding record has its expiry date, so the beyond-use date is final.",
     "component_lots_given": "Every component of a compounding record has its supplier and lot.",
 }
-CHECKS = {**ROW_CHECKS, **WORKSHEET_CHECKS, **RECORD_CHECKS}
+
+# Checks of the amounts actually taken against a worksheet (POST /v1/worksheets/amounts-taken).
+TAKEN_CHECKS = {
+    "taken_within_tolerance": "The amount taken deviates from the row's unrounded target by no more than the allowed percentage.",
+    "taken_at_least_minimum_weighable": "A mass taken on the balance is at or above its minimum weighable quantity (USP <1176>).",
+    "every_row_taken": "Every row of the worksheet has an amount taken recorded.",
+    "final_weight_within_tolerance": "The finished preparation weighs the batch mass within the tolerance given (default: the balance's acceptable error).",
+}
+CHECKS = {**ROW_CHECKS, **WORKSHEET_CHECKS, **TAKEN_CHECKS, **RECORD_CHECKS}
 
 # Quality checks a compounding record leaves to record at the bench, each
 # with a pass/fail field (`passed`, null until filled).
@@ -75,6 +83,8 @@ ANSWER_WARNINGS = {
     "procedure_phase_unknown": "The registry holds no phase for a component: the procedure leaves where it goes to the pharmacist.",
     "melting_range_unknown": "A solid or semisolid has no melting range on record: heat until melted, by the material's specification.",
     "high_process_temperature": "The oil phase must be heated near the aqueous phase's boiling point.",
+    "taken_converted_with_density": "An amount taken was given as a volume for a weighed row, or as a mass for a measured one, and converted with the row's density.",
+    "worksheet_checks_failed": "The worksheet the amounts were checked against has failed checks of its own, judged on the worksheet.",
 }
 WARNINGS = {**FINDINGS, **PROVENANCE_WARNINGS, **ANSWER_WARNINGS,
             **{f"check_{code}": f"A check failed: {meaning}" for code, meaning in CHECKS.items()}}
@@ -125,7 +135,7 @@ REFUSALS = {
     "finite_result": "The inputs give a finite result.",
     "aliquot_weighable": "The aliquot is at least the minimum weighable quantity.",
     "below_minimum_weighable": "An aliquot is planned only for an amount below the minimum weighable quantity.",
-    "positive": "An aliquot is planned for a positive amount.",
+    "positive": "An aliquot is planned for a positive amount (or a deviation or yield for a positive target).",
     "date_format": "A date is a real calendar day, YYYY-MM-DD, in a plausible year.",
     "expiry_date_format": "An expiry is a real date, YYYY-MM-DD, or a month, YYYY-MM.",
     "component_not_expired": "No component has expired before the compounding date.",
@@ -135,6 +145,9 @@ REFUSALS = {
     "component_in_worksheet": "A record's component is one of the worksheet's.",
     "one_entry_per_component": "Each worksheet component is given at most once in the record.",
     "dosage_form_suits_route": "The dosage form suits the route (an oral preparation is an emulsion).",
+    "taken_row_exists": "An amount taken names a row the worksheet has.",
+    "taken_row_once": "Each worksheet row has at most one amount taken.",
+    "taken_ingredient_matches_row": "An amount taken that names an ingredient names the one on its row.",
 }
 
-__all__ = ["ANSWER_WARNINGS", "CHECKS", "QUALITY_CHECKS", "RECORD_CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "REFUSALS", "ROW_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]
+__all__ = ["ANSWER_WARNINGS", "CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "QUALITY_CHECKS", "RECORD_CHECKS", "REFUSALS", "ROW_CHECKS", "TAKEN_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]

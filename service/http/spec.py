@@ -17,7 +17,7 @@ from service.http import answer_examples
 from service.http.access import OPEN_PATHS
 from service.http.spec_examples import EXAMPLES, PATH_EXAMPLES, QUERY_EXAMPLES
 from service.http.schemas import calculation_requests as calculations, estimate_bodies as estimates, ingredient_bodies as ingredients, meta
-from service.http.schemas import record_bodies as records, responses as answers, worksheet_bodies as worksheets
+from service.http.schemas import amounts_taken_bodies as taken, record_bodies as records, responses as answers, worksheet_bodies as worksheets
 from service.http.schemas.fields import Boolean, Number, QueryNumber
 from service.http.schemas.enums import publish as publish_enums
 from service.http.schemas.rules import RuleChecks, published
@@ -92,6 +92,12 @@ OPERATIONS = [
     ("/v1/worksheets/rescale", "post", "rescaleWorksheet", "Rescale a worksheet",
      "The worksheet for another batch size; every share keeps the % w/w it had in the original.",
      worksheets.RescaleRequestSchema, None, worksheets.WorksheetAnswerSchema, SHEET_ERRORS, "worksheets"),
+    ("/v1/worksheets/amounts-taken", "post", "checkAmountsTaken", "Check the amounts taken for a worksheet",
+     "The amounts actually weighed or measured for a batch, against the worksheet recomputed from its request: each row's deviation "
+     "from its unrounded target against the equipment's acceptable error, a mass below the balance's minimum weighable quantity "
+     "flagged, the rows not taken, the batch total, the final weight and the yield, and whether the record may pass to the checking "
+     "pharmacist, with every reason it may not. Nothing is stored. JSON, or the same record as text with Accept: text/markdown or text/plain.",
+     taken.AmountsTakenRequestSchema, None, taken.AmountsTakenAnswerSchema, SHEET_ERRORS, "worksheets"),
     ("/v1/compounding-records", "post", "createCompoundingRecord", "Compounding record",
      "The worksheet with what the pharmacy adds (the preparation, each component's supplier, lot and expiry, the compounding date "
      "and the people), made into a nonsterile compounding record: the beyond-use date by USP <795>'s default categories (never later "

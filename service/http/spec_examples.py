@@ -106,6 +106,18 @@ EXAMPLES = {
     },
 }
 EXAMPLES["rescaleWorksheet"]["to_500_g"]["value"]["worksheet"] = EXAMPLES["createWorksheet"]["lotion"]["value"]
+EXAMPLES["checkAmountsTaken"] = {
+    "weighed": {"summary": "The hand lotion's 200 g batch as weighed, one oil measured by volume, and the final weight",
+                "value": {"worksheet": EXAMPLES["createWorksheet"]["lotion"]["value"],
+                          "taken": [{"row": 0, "ingredient": "light-mineral-oil", "amount": {"value": 20.02, "unit": "g"}},
+                                    {"row": 1, "ingredient": "isopropyl-myristate", "amount": {"value": 18.85, "unit": "mL"}},
+                                    {"row": 2, "ingredient": "cetyl-alcohol", "amount": {"value": 4.01, "unit": "g"}},
+                                    {"row": 3, "ingredient": "sorbitan-monostearate", "amount": {"value": 3.24, "unit": "g"}},
+                                    {"row": 4, "ingredient": "polysorbate-60", "amount": {"value": 6.75, "unit": "g"}},
+                                    {"row": 5, "ingredient": "glycerin", "amount": {"value": 10.03, "unit": "g"}},
+                                    {"row": 6, "ingredient": "purified-water", "amount": {"value": 140.1, "unit": "g"}}],
+                          "final_weight": {"value": 198.6, "unit": "g"}}},
+}
 
 # The hand lotion's compounding record: the same formula with a preservative
 # (inline, as the registry holds none), invented suppliers, lots and dates.

@@ -48,6 +48,17 @@ def _mass(value: float, unit: str, readability_g: float) -> str:
     return f"{value:.{decimals}f}"
 
 
+def table_lines(header: list[str], table: list[list[str]], markdown: bool) -> list[str]:
+    """A table of cells already escaped: Markdown's, or columns padded with
+    spaces (no separator a name could fake)."""
+    if markdown:
+        return (["| " + " | ".join(header) + " |", "|" + "|".join("---" for _ in header) + "|"]
+                + ["| " + " | ".join(cells) + " |" for cells in table])
+    widths = [max(len(str(x)) for x in col) for col in zip(header, *table)]
+    return (["  ".join(h.ljust(w) for h, w in zip(header, widths)), "  ".join("-" * w for w in widths)]
+            + ["  ".join(str(c).ljust(w) for c, w in zip(cells, widths)) for cells in table])
+
+
 def _mark(ok: bool) -> str:
     return "ok" if ok else "CHECK"
 
@@ -88,15 +99,7 @@ def worksheet_text(answer: dict, markdown: bool) -> str:
                       f"{row['mass_g_unrounded']:.6g}", f"{row['rounding_error_percent']:+.2f} %", volume, how, flags])
     total = sum(row["mass"]["value"] for row in r["rows"])
     table.append(["Total", "", f"{r['totals']['percent_w_w']:.3f}", _mass(total, mass_unit, readability), "", "", "", "", ""])
-    if markdown:
-        lines.append("| " + " | ".join(header) + " |")
-        lines.append("|" + "|".join("---" for _ in header) + "|")
-        lines += ["| " + " | ".join(cells) + " |" for cells in table]
-    else:
-        widths = [max(len(str(x)) for x in col) for col in zip(header, *table)]
-        lines.append("  ".join(h.ljust(w) for h, w in zip(header, widths)))
-        lines.append("  ".join("-" * w for w in widths))
-        lines += ["  ".join(str(c).ljust(w) for c, w in zip(cells, widths)) for cells in table]
+    lines += table_lines(header, table, markdown)
     lines += ["", f"{h2}Checks", ""]
     lines += [f"- [{_mark(k['ok'])}] {e(k['message'])}" for k in r["checks"]]
     for row in r["rows"]:

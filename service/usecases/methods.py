@@ -125,6 +125,30 @@ RECORD_CAUTIONS = WORKSHEET_CAUTIONS + (
     "Fields left blank (________) are for the people who compound and check the preparation to fill in; the record is complete only "
     "when they are.",
 )
+AMOUNTS_TAKEN = Method(
+    name="Amounts taken against the batch worksheet: deviations, batch total and yield",
+    formula="deviation = taken − target, in the unit the row is measured in (g weighed, mL measured); deviation % = deviation / "
+    "unrounded target × 100; within when |deviation %| ≤ allowed %; yield % = final weight / batch mass × 100",
+    source_ids=("usp-1176", "graduate-practice"),
+    assumptions=(
+        "The worksheet is recomputed from its request; no figure sent back with the amounts is used.",
+        "Deviations are taken against the unrounded target (mass_g_unrounded, or the unrounded volume), never the displayed "
+        "figure, so that display rounding cannot decide a verdict.",
+        "A weighed row is allowed the balance's acceptable error (the error USP <1176> bases the minimum weighable quantity on).",
+        "A row measured by volume is allowed the same percentage: no sourced rule for the error of a graduate, pipette or syringe "
+        "was found in the parts of USP <1176> read (the guidance on choosing graduates sets no percentage); common practice, no source.",
+        "A mass taken on the balance (for a weighed row, or for a measured row weighed instead) is flagged below the balance's "
+        "minimum weighable quantity (USP <1176>: sensitivity × 100 / acceptable % error).",
+        "A volume given for a weighed row, or a mass for a measured one, is converted with the density the worksheet used for "
+        "the row (its unrounded mass over its volume); a row with no density known is refused such an amount, a solid always.",
+        "The final weight's tolerance is the request's, or else the balance's acceptable error (common practice, no source).",
+        "The worksheet's own checks concern the plan and are not repeated; their failures are counted and warned about.",
+    ),
+)
+AMOUNTS_TAKEN_CAUTIONS = (
+    "may_pass_to_checker says only that the amounts recorded here are within tolerance; the checking pharmacist still verifies "
+    "each amount, the materials and their lots against the record before the batch is released.",
+)
 
 GRIFFIN_SCOPE = ("Griffin's composition formulas hold for nonionic surfactants only, and not for those containing propylene "
                  "oxide, nitrogen or sulfur (Griffin 1954).")

@@ -231,7 +231,26 @@ def _row_out(row: Row, b, measure: dict, checks, volume, mass_unit: str, volume_
     }
 
 
+@dataclass
+class Sheet:
+    """A worksheet's parts before the envelope: its result, the values used
+    and the warnings, and the method that produced it."""
+
+    result: dict
+    values_used: ValuesUsed
+    warnings: list
+    method: methods.Method
+
+
 def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_from: dict | None = None) -> dict:
+    sheet = worksheet_parts(data, registry, strict, rescaled_from)
+    return envelope(sheet.result, {"request": copy.deepcopy(data)}, sheet.method, sheet.values_used, sheet.warnings, registry,
+                    strict=strict, extra_cautions=methods.WORKSHEET_CAUTIONS)
+
+
+def worksheet_parts(data: dict, registry: Registry, strict: bool = False, rescaled_from: dict | None = None) -> Sheet:
+    """The worksheet, for the answer and for the calls built on it (the
+    amounts taken); every ingredient id is checked first."""
     check_references(data, registry)
     c = compute(data, registry, strict)
     balance, graduates, defaults = equipment_from(data.get("equipment", {}))
@@ -288,8 +307,7 @@ def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_fro
         "checks": checks, "rescaled_from": rescaled_from,
     }
     method = methods.WORKSHEET_WITH_ESTIMATE if c.emulsifier["minimum_estimate_g_per_100g"] is not None else methods.WORKSHEET
-    return envelope(result, {"request": copy.deepcopy(data)}, method, c.values_used, warnings, registry,
-                    strict=strict, extra_cautions=methods.WORKSHEET_CAUTIONS)
+    return Sheet(result, c.values_used, warnings, method)
 
 
 def rescale(data: dict, registry: Registry, strict: bool = False) -> dict:
