@@ -31,6 +31,14 @@ def _or_blank(value) -> str | None:
     return None if value in (None, "") else str(value)
 
 
+def _taken(x: dict | None) -> str:
+    """The Taken cell: the amount recorded with its verdict, or a blank."""
+    if x is None:
+        return BLANK
+    ok = all(k["ok"] for k in x["checks"])
+    return f"{x['taken_as_given']['value']:g} {x['taken_as_given']['unit']} ({x['deviation_percent']:+.2f} %{'' if ok else ', CHECK'})"
+
+
 def record_blocks(answer: dict) -> list[Block]:
     r = answer["result"]
     prep, bud, sheet = r["preparation"], r["beyond_use_date"], r["worksheet"]
@@ -73,14 +81,15 @@ def record_blocks(answer: dict) -> list[Block]:
                    bud["caution"],
                ))]
     rows = []
-    for comp, row in zip(r["components"], sheet["rows"]):
+    taken = {x["row"]: x for x in r["amounts_taken"]["rows"]} if r["amounts_taken"] else {}
+    for i, (comp, row) in enumerate(zip(r["components"], sheet["rows"])):
         how = row["measure"]["how"]
         if how == "graduate":
             how += f" {row['measure']['graduate_ml']:g} mL: {row['measure']['volume_ml_rounded']:g} mL"
         rows.append((row["name"] + (" (q.s.)" if row["role"] == "qs" else ""), row["phase"], f"{row['percent_w_w']:.3f}",
                      _mass(row["mass"]["value"], row["mass"]["unit"], readability) + f" {row['mass']['unit']}",
                      f"{row['mass_g_unrounded']:.6g}", how, comp["supplier"] or BLANK, comp["lot"] or BLANK,
-                     comp["expiry"] or BLANK, BLANK))
+                     comp["expiry"] or BLANK, _taken(taken.get(i))))
     total = sum(row["mass"]["value"] for row in sheet["rows"])
     unit = sheet["rows"][0]["mass"]["unit"]
     rows.append(("Total", "", f"{sheet['totals']['percent_w_w']:.3f}", _mass(total, unit, readability) + f" {unit}", "", "", "", "", "", ""))
@@ -102,8 +111,13 @@ def record_blocks(answer: dict) -> list[Block]:
                Block("table", header=("Check", "Expected", "Result", "Pass / fail"),
                      items=tuple((q["check"], q["expected"], q["result"] or BLANK,
                                   BLANK if q["passed"] is None else ("pass" if q["passed"] else "FAIL")) for q in r["quality_checks"]))]
-    checks = [f"[{'ok' if k['ok'] else 'CHECK'}] {k['message']}" for k in sheet["checks"] + r["checks"]]
+    taken_checks = r["amounts_taken"]["checks"] if r["amounts_taken"] else []
+    checks = [f"[{'ok' if k['ok'] else 'CHECK'}] {k['message']}" for k in sheet["checks"] + r["checks"] + taken_checks]
+    if r["amounts_taken"]:
+        checks.append("[ok] the amounts taken may pass to the checking pharmacist" if r["amounts_taken"]["may_pass_to_checker"]
+                      else "[CHECK] the amounts taken may not pass to the checking pharmacist yet: " + "; ".join(r["amounts_taken"]["reasons"]))
     checks += [f"[CHECK] {row['name']}: {k['message']}" for row in sheet["rows"] for k in row["checks"] if not k["ok"]]
+    checks += [f"[CHECK] {x['name']} taken: {k['message']}" for x in taken.values() for k in x["checks"] if not k["ok"]]
     blocks += [Block("h2", "Checks"), Block("list", items=tuple(checks))]
     if r["required_elements"]["to_fill"]:
         blocks += [Block("h2", "To fill"), Block("list", items=tuple(r["required_elements"]["to_fill"]))]

@@ -112,9 +112,6 @@ PROVENANCE_RULES = (
 )
 
 
-PROVENANCE_CODES = frozenset(code for code, _, _ in PROVENANCE_RULES)
-
-
 def provenance_warnings(values_used: Iterable[ValueUsed]) -> list[dict]:
     out = []
     for code, applies, message in PROVENANCE_RULES:

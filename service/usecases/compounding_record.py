@@ -8,30 +8,18 @@ from __future__ import annotations
 import copy
 
 from registry import Registry
-from service.core.errors import CalculationError, InvalidInput, UnverifiedValuesRefused, pointer
+from service.core.errors import UnverifiedValuesRefused
 from service.core.procedure import ProcedureRow, procedure
 from service.usecases import methods, worksheet as worksheet_case
-from service.usecases.answers import PROVENANCE_CODES, envelope, finding_warnings
+from service.usecases.amounts_taken import check_amounts_taken, taken_warnings
+from service.usecases.answers import envelope, finding_warnings, tidy
 from service.usecases.beyond_use import beyond_use_block, component_expiry, parse_day
+from service.units import to_canonical
 from service.usecases.provenance import ValueUsed, ValuesUsed, figures_differ, source_block
 from service.usecases.record_parts import label, quality_checks, required_elements
 from service.usecases.resolution import Faults, enforce_strict, invalid, spans
 
 ORAL_FORMS = ("emulsion",)
-
-
-def _prefixed(fn, prefix: tuple, *args):
-    """fn(*args), with the pointers of any refusal moved under `prefix`: the
-    worksheet is checked as a part of the record's request."""
-    head = pointer(prefix)
-    try:
-        return fn(*args)
-    except CalculationError as exc:
-        raise CalculationError(prefix + exc.path, exc.rule, exc.message, **exc.extra) from None
-    except (InvalidInput, UnverifiedValuesRefused) as exc:
-        for fault in exc.faults:
-            fault["pointer"] = head + fault["pointer"][1:]
-        raise
 
 
 def _row_label(row: dict) -> str:
@@ -99,9 +87,9 @@ def _processing(row: dict, entry: dict, registry: Registry, hlb_by_row: dict, va
                         top, melting_basis, late, water)
 
 
-def _hlb_by_row(sheet: dict) -> dict:
+def _hlb_by_row(values_used: ValuesUsed) -> dict:
     """The HLB each surfactant was used at in the worksheet, by id or name."""
-    return {v["ingredient"] or v["name"]: v["figure"] for v in sheet["values_used"] if v["property"] == "hlb"}
+    return {v.ingredient or v.name: v.figure for v in values_used if v.property == "hlb"}
 
 
 def _component_out(i: int, row: dict, entry: dict) -> dict:
@@ -130,15 +118,19 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
     _check_form(prep)
     compounding = data["compounding"]
     compounded_on = parse_day(compounding["date"], ("compounding", "date"))
-    sheet = _prefixed(worksheet_case.worksheet, ("worksheet",), data["worksheet"], registry, strict)
-    result = sheet["result"]
+    sheet = worksheet_case.nested_worksheet_parts(data["worksheet"], registry, strict)
+    result = tidy(sheet.result)
     rows = result["rows"]
     faults = Faults()
     matched = _match_components(data, rows, faults)
     faults.raise_any()
+    final = data.get("final_weight")
+    final_g = to_canonical(final["value"], final["unit"])[1] if final else None
+    tolerance = data.get("final_weight_tolerance_percent")
+    taken = check_amounts_taken(result, data["taken"], final_g, tolerance) if data.get("taken") else None
 
-    values_used = ValuesUsed(ValueUsed.from_dict(v) for v in sheet["values_used"])
-    hlbs = _hlb_by_row(sheet)
+    values_used = sheet.values_used
+    hlbs = _hlb_by_row(values_used)
     components, proc_rows = [], []
     for i, row in enumerate(rows):
         j, entry = matched.get(i, (None, {}))
@@ -157,9 +149,8 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
         c["expiry_read_as"] = parsed.date.isoformat() if parsed else None
     proc = procedure(result["emulsion_type"], proc_rows, result["batch_mass_g"])
 
-    tolerance = data.get("final_weight_tolerance_percent", result["equipment"]["balance"]["acceptable_error_percent"])
-    final_weight = data.get("final_weight_g")
-    checks_to_record = quality_checks(prep, any(r["phase"] == "aqueous" for r in rows), result["batch_mass_g"], tolerance, final_weight)
+    checks_to_record = quality_checks(prep, any(r["phase"] == "aqueous" for r in rows), result["batch_mass_g"],
+                                      result["equipment"]["balance"]["acceptable_error_percent"] if tolerance is None else tolerance, final_g)
     table = registry.beyond_use_dates
     record_checks = [
         {"code": "component_expiries_given", "ok": not bud["components_without_expiry"],
@@ -188,6 +179,7 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
         "quality_checks": checks_to_record,
         "checks": record_checks,
         "worksheet": result,
+        "amounts_taken": taken,
         "paper": data.get("paper", "A4"),
     }
     out["required_elements"] = required_elements(out, {"source": source_block(registry.sources[table.source_id]),
@@ -195,8 +187,7 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
     # Complete for compounding: all the request can give is given; the quality
     # results are written at the bench.
     out["complete"] = not out["required_elements"]["to_fill_before_compounding"] and all(k["ok"] for k in record_checks)
-    # The worksheet's provenance warnings are made again over all the values used.
-    warnings = [w for w in sheet["warnings"] if w["code"] not in PROVENANCE_CODES] + finding_warnings(proc.findings)
+    warnings = list(sheet.warnings) + finding_warnings(proc.findings) + (taken_warnings(taken) if taken else [])
     warnings += [{"code": f"check_{k['code']}", "subject": None, "message": k["message"]} for k in record_checks if not k["ok"]]
     category = bud["category"]
     if category["status"] == "unverified":

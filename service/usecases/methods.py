@@ -109,7 +109,7 @@ COMPOUNDING_RECORD = Method(
     formula="BUD = min(compounding date + the category's days, the earliest component expiry); category by water (aqueous when the "
     "formula holds water or the measured water activity is at least the threshold), preservative and oral liquid; oil phase heated to "
     "max(70 °C, top of the highest melting range + 5 °C), rounded up to 5 °C",
-    source_ids=("usp-795-2023", "griffin-1949", "usp-1176", "graduate-practice"),
+    source_ids=("usp-795-2023", "griffin-1949", "pasquali-2008", "usp-1176", "graduate-practice"),
     assumptions=(
         "The beyond-use categories are the chapter's defaults where no USP-NF compounded preparation monograph or stability study of "
         "the preparation applies; each category is shown with its source, locator and status.",

@@ -253,3 +253,21 @@ def test_a_record_with_everything_given_is_complete_for_compounding(client):
     body["preparation"].pop("container")
     res = _post(client, body).get_json()["result"]
     assert not res["complete"] and res["required_elements"]["to_fill_before_compounding"] == ["Container closure system"]
+
+
+def test_the_amounts_taken_are_checked_in_the_record(client):
+    answer = _post(client, DEMO).get_json()
+    rows = answer["result"]["worksheet"]["rows"]
+    body = _body(final_weight={"value": 199.1, "unit": "g"})
+    # Every row taken as the worksheet shows it, but the first 6 % heavy:
+    # 20 g wanted, 21.2 g is +6 %, beyond the 5 % allowed (USP <1176>'s
+    # acceptable error the worksheet's balance is set to).
+    body["taken"] = [{"row": i, "amount": {"value": row["mass"]["value"], "unit": "g"}} for i, row in enumerate(rows)]
+    body["taken"][0]["amount"]["value"] = 21.2
+    res = _post(client, body).get_json()["result"]
+    taken = res["amounts_taken"]
+    assert not taken["may_pass_to_checker"] and taken["rows"][0]["deviation_percent"] == pytest.approx(6.0)
+    final = next(q for q in res["quality_checks"] if q["code"] == "final_weight")
+    assert final["result"] == "199.1 g" and final["passed"] is True
+    text = _post(client, body, accept="text/plain").get_data(as_text=True)
+    assert "21.2 g (+6.00 %, CHECK)" in text and "may not pass to the checking pharmacist" in text

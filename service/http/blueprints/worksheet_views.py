@@ -58,7 +58,7 @@ def rescale_worksheet():
 
 @bp.post("/worksheets/amounts-taken")
 def check_amounts_taken():
-    media = _negotiated()
+    media = negotiated()
     data = load_body(TAKEN_IN)
     return _as(TAKEN_OUT, taken_text, amounts_taken.amounts_taken(data, _registry(), _strict(data["worksheet"])), media)
 

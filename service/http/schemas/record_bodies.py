@@ -8,9 +8,11 @@ from marshmallow import Schema, fields
 
 from service.http.schemas.fields import Boolean, BoundedList, FullMatch, Number, ingredient_id, one_of, text
 from service.http.schemas.responses import AmountOutSchema, CitationSchema, answer
+from service.http.schemas.amounts_taken_bodies import MAX_ROWS, AmountsTakenResultSchema, TakenSchema
+from service.http.schemas.common import MassSchema
 from service.http.schemas.enums import enum_field
 from service.http.schemas.rules import RuleChecks, exactly_one, not_above
-from service.http.schemas.worksheet_bodies import MAX_INGREDIENTS, CheckSchema, WorksheetRequestSchema, WorksheetResultSchema
+from service.http.schemas.worksheet_bodies import CheckSchema, WorksheetRequestSchema, WorksheetResultSchema
 
 DOSAGE_FORMS = ("cream", "lotion", "emulsion")
 ROUTES = ("topical", "oral", "rectal", "vaginal", "mucosal")
@@ -69,11 +71,13 @@ class CompoundingSchema(Schema):
 class RecordRequestSchema(Schema):
     worksheet = fields.Nested(WorksheetRequestSchema, required=True, metadata={"description": "The worksheet request, as for /v1/worksheets."})
     preparation = fields.Nested(PreparationSchema, required=True)
-    components = BoundedList(fields.Nested(RecordComponentSchema), max_items=MAX_INGREDIENTS + 12,
+    components = BoundedList(fields.Nested(RecordComponentSchema), max_items=MAX_ROWS,
                              metadata={"description": "Supplier, lot and expiry of each worksheet component; one missing is a field to fill."})
     compounding = fields.Nested(CompoundingSchema, required=True)
-    final_weight_g = Number(exclusive_minimum=0, maximum=1e6, metadata={"description": "The finished preparation's weight, g, for the final-weight check."})
-    final_weight_tolerance_percent = Number(minimum=0.1, maximum=20, metadata={"description": "Default: the balance's acceptable error (common practice)."})
+    taken = BoundedList(fields.Nested(TakenSchema), max_items=MAX_ROWS, metadata={
+        "description": "The amounts actually weighed or measured, as for /v1/worksheets/amounts-taken; checked and shown in the record."})
+    final_weight = fields.Nested(MassSchema, metadata={"description": "The finished preparation, weighed: judged in the final-weight check."})
+    final_weight_tolerance_percent = Number(minimum=0.1, maximum=50, metadata={"description": "Default: the balance's acceptable error (common practice)."})
     paper = one_of(PAPERS, metadata={"description": "Page size of the PDF form; default A4."})
     strict = Boolean(metadata={"description": "Refuse unverified registry values (the beyond-use category included)."})
 
@@ -253,6 +257,7 @@ class RecordResultSchema(Schema):
     quality_checks = fields.List(fields.Nested(QualityCheckSchema), required=True)
     checks = fields.List(fields.Nested(RecordCheckSchema), required=True)
     worksheet = fields.Nested(WorksheetResultSchema, required=True)
+    amounts_taken = fields.Nested(AmountsTakenResultSchema, required=True, allow_none=True, metadata={"description": "The amounts taken, checked, where the request gave them."})
     paper = fields.String(required=True)
     required_elements = fields.Nested(RequiredElementsSchema, required=True)
     complete = fields.Boolean(required=True, metadata={"description": "Ready to compound: every element the request can give is given and every record check passed; the quality results are filled in at the bench."})
