@@ -23,6 +23,11 @@ WORKSHEET_CHECKS = {
     "ionic_compatibility": "No anionic surfactant is combined with a cationic one.",
     "emulsifier_level": "Each surfactant is within the levels usual for it, where the registry records them.",
 }
+RECORD_CHECKS = {
+    "component_expiries_given": "Every component of a compounding record has its expiry date, so the beyond-use date is final.",
+    "component_lots_given": "Every component of a compounding record has its supplier and lot.",
+}
+
 # Checks of the amounts actually taken against a worksheet (POST /v1/worksheets/amounts-taken).
 TAKEN_CHECKS = {
     "taken_within_tolerance": "The amount taken deviates from the row's unrounded target by no more than the allowed percentage.",
@@ -30,7 +35,16 @@ TAKEN_CHECKS = {
     "every_row_taken": "Every row of the worksheet has an amount taken recorded.",
     "final_weight_within_tolerance": "The finished preparation weighs the batch mass within the tolerance given (default: the balance's acceptable error).",
 }
-CHECKS = {**ROW_CHECKS, **WORKSHEET_CHECKS, **TAKEN_CHECKS}
+CHECKS = {**ROW_CHECKS, **WORKSHEET_CHECKS, **TAKEN_CHECKS, **RECORD_CHECKS}
+
+# Quality checks a compounding record leaves to record at the bench, each
+# with a pass/fail field (`passed`, null until filled).
+QUALITY_CHECKS = {
+    "appearance": "Colour, texture and uniformity against the description; no lumps, grit or foreign matter.",
+    "phase_separation": "No separation, creaming or oil droplets after standing.",
+    "ph": "The pH, where the preparation has an aqueous phase, against the range given.",
+    "final_weight": "The finished preparation's weight against the batch, within the tolerance.",
+}
 
 # Warnings: something a pharmacist should read before relying on the answer.
 FINDINGS = {
@@ -65,6 +79,10 @@ ANSWER_WARNINGS = {
     "optimum_not_bracketed": "The best test is at the edge of the series: the required HLB may lie outside it.",
     "no_candidate_pair": "No registry pair reaches the target.",
     "rounding_residue_to_largest_share": "A formula stated in full has no q.s. vehicle: its largest share takes the rounding residue.",
+    "unverified_bud_category": "The beyond-use category used is not yet checked against the chapter it cites.",
+    "procedure_phase_unknown": "The registry holds no phase for a component: the procedure leaves where it goes to the pharmacist.",
+    "melting_range_unknown": "A solid or semisolid has no melting range on record: heat until melted, by the material's specification.",
+    "high_process_temperature": "The oil phase must be heated near the aqueous phase's boiling point.",
     "taken_converted_with_density": "An amount taken was given as a volume for a weighed row, or as a mass for a measured one, and converted with the row's density.",
     "worksheet_checks_failed": "The worksheet the amounts were checked against has failed checks of its own, judged on the worksheet.",
 }
@@ -118,9 +136,18 @@ REFUSALS = {
     "aliquot_weighable": "The aliquot is at least the minimum weighable quantity.",
     "below_minimum_weighable": "An aliquot is planned only for an amount below the minimum weighable quantity.",
     "positive": "An aliquot is planned for a positive amount (or a deviation or yield for a positive target).",
+    "date_format": "A date is a real calendar day, YYYY-MM-DD, in a plausible year.",
+    "expiry_date_format": "An expiry is a real date, YYYY-MM-DD, or a month, YYYY-MM.",
+    "component_not_expired": "No component has expired before the compounding date.",
+    "bud_category_decidable": "The beyond-use category can be decided from the formula and the record's inputs.",
+    "preservative_named": "A preparation stated preserved names its preservative among the components.",
+    "storage_for_bud_category": "The storage stated is one the beyond-use category allows.",
+    "component_in_worksheet": "A record's component is one of the worksheet's.",
+    "one_entry_per_component": "Each worksheet component is given at most once in the record.",
+    "dosage_form_suits_route": "The dosage form suits the route (an oral preparation is an emulsion).",
     "taken_row_exists": "An amount taken names a row the worksheet has.",
     "taken_row_once": "Each worksheet row has at most one amount taken.",
     "taken_ingredient_matches_row": "An amount taken that names an ingredient names the one on its row.",
 }
 
-__all__ = ["ANSWER_WARNINGS", "CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "REFUSALS", "ROW_CHECKS", "TAKEN_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]
+__all__ = ["ANSWER_WARNINGS", "CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "QUALITY_CHECKS", "RECORD_CHECKS", "REFUSALS", "ROW_CHECKS", "TAKEN_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]

@@ -15,12 +15,12 @@ RESPONSE_EXAMPLES_PATH = Path(__file__).resolve().parents[2] / "openapi" / "resp
 POST_PATHS = {
     "blendHlb": "/v1/blends/hlb", "blendProportions": "/v1/blends/proportions", "oilPhaseRequiredHlb": "/v1/oil-phases/required-hlb",
     "emulsifierMinimum": "/v1/emulsifier/minimum", "createWorksheet": "/v1/worksheets", "rescaleWorksheet": "/v1/worksheets/rescale",
-    "checkAmountsTaken": "/v1/worksheets/amounts-taken",
+    "checkAmountsTaken": "/v1/worksheets/amounts-taken", "createCompoundingRecord": "/v1/compounding-records",
     "candidatePairs": "/v1/candidate-pairs", "hlbEstimate": "/v1/hlb-estimates", "requiredHlbSeriesPlan": "/v1/required-hlb-series/plan",
     "requiredHlbSeriesEvaluate": "/v1/required-hlb-series/evaluate",
 }
 # Operations whose example is also recorded as the Markdown worksheet.
-MARKDOWN = ("createWorksheet", "checkAmountsTaken")
+MARKDOWN = ("createWorksheet", "checkAmountsTaken", "createCompoundingRecord")
 
 
 def record(app) -> dict:

@@ -18,7 +18,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     partial data. Where the overlay meets shipped records, each collision is
     logged as a warning, naming both records and how to resolve it."""
     from service.http import access, headers
-    from service.http.blueprints import calculation_views, estimate_views, ingredient_views, meta_views, worksheet_views
+    from service.http.blueprints import calculation_views, estimate_views, ingredient_views, meta_views, record_views, worksheet_views
     from service.http.problems import register_error_handlers
     from service.http import requests_seen
     from service.http.jsonio import StrictJSONProvider
@@ -46,7 +46,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     register_error_handlers(app)
     access.install(app, settings)
     headers.install(app, tokens_required=bool(settings.api_tokens))
-    for module in (calculation_views, worksheet_views, estimate_views, ingredient_views, meta_views):
+    for module in (calculation_views, worksheet_views, record_views, estimate_views, ingredient_views, meta_views):
         app.register_blueprint(module.bp)
 
     @app.after_request

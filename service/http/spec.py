@@ -17,7 +17,7 @@ from service.http import answer_examples
 from service.http.access import OPEN_PATHS
 from service.http.spec_examples import EXAMPLES, PATH_EXAMPLES, QUERY_EXAMPLES
 from service.http.schemas import calculation_requests as calculations, estimate_bodies as estimates, ingredient_bodies as ingredients, meta
-from service.http.schemas import amounts_taken_bodies as taken, responses as answers, worksheet_bodies as worksheets
+from service.http.schemas import amounts_taken_bodies as taken, record_bodies as records, responses as answers, worksheet_bodies as worksheets
 from service.http.schemas.fields import Boolean, Number, QueryNumber
 from service.http.schemas.enums import publish as publish_enums
 from service.http.schemas.rules import RuleChecks, published
@@ -53,7 +53,7 @@ ERRORS = {
     "405": "Method not allowed on this path; the Allow header lists those that are.",
     "411": "A body was sent without Content-Length (chunked bodies are refused).",
     "413": "The body is too large.",
-    "406": "None of the media types the request accepts is offered (application/json, text/markdown, text/plain).",
+    "406": "None of the media types the request accepts is offered (application/json, text/markdown, text/plain; application/pdf for a compounding record).",
     "415": "The body is not application/json.",
     "422": "The input broke a rule of the schema or of the calculation; each fault is named by pointer and rule. Every unknown or "
            "retired ingredient id is named at once, an unknown one with the closest ids in `suggestions`.",
@@ -61,6 +61,8 @@ ERRORS = {
 BODY_ERRORS = ("400", "405", "411", "413", "415", "422")
 SHEET_ERRORS = ("400", "405", "406", "411", "413", "415", "422")
 GET_ERRORS = ("405",)
+# Operations that also answer application/pdf.
+PDF_OPERATIONS = ("createCompoundingRecord",)
 
 # (path, method, operationId, summary, description, request schema, query schema, answer schema, errors, tag)
 OPERATIONS = [
@@ -96,6 +98,13 @@ OPERATIONS = [
      "flagged, the rows not taken, the batch total, the final weight and the yield, and whether the record may pass to the checking "
      "pharmacist, with every reason it may not. Nothing is stored. JSON, or the same record as text with Accept: text/markdown or text/plain.",
      taken.AmountsTakenRequestSchema, None, taken.AmountsTakenAnswerSchema, SHEET_ERRORS, "worksheets"),
+    ("/v1/compounding-records", "post", "createCompoundingRecord", "Compounding record",
+     "The worksheet with what the pharmacy adds (the preparation, each component's supplier, lot and expiry, the compounding date "
+     "and the people), made into a nonsterile compounding record: the beyond-use date by USP <795>'s default categories (never later "
+     "than the earliest component expiry), the procedure in steps, the label text, the quality checks to record, and the chapter's "
+     "required elements with what is still to fill. JSON, or the same record as text/markdown, text/plain or application/pdf "
+     "(A4 or US Letter). Nothing is stored.",
+     records.RecordRequestSchema, None, records.RecordAnswerSchema, SHEET_ERRORS, "worksheets"),
     ("/v1/candidate-pairs", "post", "candidatePairs", "Candidate surfactant pairs",
      "Registry pairs that reach a target HLB (or an oil phase's required HLB), ranked: one fatty-chain family first, "
      "balanced proportions, nonionic before ionic; filterable by ionic class.",
@@ -173,6 +182,8 @@ def build_spec() -> dict:
         }
         if "406" in errors:
             operation["responses"]["200"]["content"].update({"text/markdown": {"schema": {"type": "string"}}, "text/plain": {"schema": {"type": "string"}}})
+        if op_id in PDF_OPERATIONS:
+            operation["responses"]["200"]["content"]["application/pdf"] = {"schema": {"type": "string", "contentMediaType": "application/pdf"}}
         for media, named in answers_recorded.get(op_id, {}).items():
             operation["responses"]["200"]["content"][media]["examples"] = named
         if body is not None:

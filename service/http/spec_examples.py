@@ -3,6 +3,8 @@ schemathesis run). The scenario is invented: a 200 g batch of a hand lotion
 at a hospital's compounding unit."""
 from __future__ import annotations
 
+import copy
+
 EXAMPLES = {
     "blendHlb": {
         "by_mass": {
@@ -115,6 +117,34 @@ EXAMPLES["checkAmountsTaken"] = {
                                     {"row": 5, "ingredient": "glycerin", "amount": {"value": 10.03, "unit": "g"}},
                                     {"row": 6, "ingredient": "purified-water", "amount": {"value": 140.1, "unit": "g"}}],
                           "final_weight": {"value": 198.6, "unit": "g"}}},
+}
+
+# The hand lotion's compounding record: the same formula with a preservative
+# (inline, as the registry holds none), invented suppliers, lots and dates.
+_RECORD_SHEET = copy.deepcopy(EXAMPLES["createWorksheet"]["lotion"]["value"])
+_RECORD_SHEET["ingredients"].insert(4, {"inline": {"name": "Phenoxyethanol", "physical_state": "liquid", "ionic_class": "nonionic"},
+                                        "phase": "other", "share": {"value": 0.5, "unit": "% w/w"}})
+EXAMPLES["createCompoundingRecord"] = {
+    "lotion": {
+        "summary": "The hand lotion's record: 200 g, preserved, compounded on 2026-12-02",
+        "value": {
+            "worksheet": _RECORD_SHEET,
+            "preparation": {"name": "Hand lotion (demo)", "dosage_form": "lotion", "route": "topical",
+                            "container": "250 mL white polyethylene bottle, screw cap", "formula_reference": "Pharmacy formula HL-1 (demo)",
+                            "internal_id": "B-0001", "description": "white, smooth, pourable lotion"},
+            "components": [
+                {"ingredient": "light-mineral-oil", "supplier": "Supplier A (demo)", "lot": "LMO-2611", "expiry": "2028-06"},
+                {"ingredient": "isopropyl-myristate", "supplier": "Supplier A (demo)", "lot": "IPM-2604", "expiry": "2027-09-30"},
+                {"ingredient": "cetyl-alcohol", "supplier": "Supplier B (demo)", "lot": "CA-2588", "expiry": "2028-01"},
+                {"ingredient": "sorbitan-monostearate", "supplier": "Supplier B (demo)", "lot": "SMS-2602", "expiry": "2027-11"},
+                {"ingredient": "polysorbate-60", "supplier": "Supplier B (demo)", "lot": "PS60-2597", "expiry": "2027-08"},
+                {"ingredient": "glycerin", "supplier": "Supplier A (demo)", "lot": "GLY-2620", "expiry": "2029-02"},
+                {"name": "Phenoxyethanol", "supplier": "Supplier C (demo)", "lot": "PE-2615", "expiry": "2028-03", "preservative": True},
+                {"ingredient": "purified-water", "supplier": "in-house (demo)", "lot": "PW-261202", "expiry": "2027-01"},
+            ],
+            "compounding": {"date": "2026-12-02", "prepared_by": "TK (demo)"},
+        },
+    },
 }
 
 # Requests without a body: the query or path of each operation's example.

@@ -12,12 +12,11 @@ import copy
 
 from registry import Registry
 from service.core.deviations import Deviation, deviation, mass_g_from_volume, volume_ml_from_mass, yield_percent
-from service.core.errors import CalculationError, FaultList
 from service.units import to_canonical
 from service.usecases import methods
 from service.usecases.answers import envelope, tidy
 from service.usecases.resolution import Faults, invalid
-from service.usecases.worksheet import worksheet_parts
+from service.usecases.worksheet import nested_worksheet_parts
 
 # How the worksheet says a row is measured by volume; every other row is weighed.
 BY_VOLUME = ("graduate", "pipette_or_syringe")
@@ -176,22 +175,10 @@ def taken_warnings(result: dict) -> list[dict]:
     return out
 
 
-def _inside_worksheet(data: dict, registry: Registry, strict: bool):
-    """The worksheet of the request's `worksheet` member, its refusals pointed
-    at their place in this request (under /worksheet)."""
-    try:
-        return worksheet_parts(data, registry, strict)
-    except CalculationError as exc:
-        raise CalculationError(("worksheet",) + exc.path, exc.rule, exc.message, **exc.extra) from None
-    except FaultList as exc:
-        faults = [{**f, "pointer": f["pointer"].replace("#/", "#/worksheet/", 1)} for f in exc.faults]
-        raise type(exc)(faults, exc.detail.replace("#/", "#/worksheet/")) from None
-
-
 def amounts_taken(data: dict, registry: Registry, strict: bool = False) -> dict:
     """The answer to POST /v1/worksheets/amounts-taken: the worksheet is
     recomputed from its request, then the amounts are checked against it."""
-    sheet = _inside_worksheet(data["worksheet"], registry, strict)
+    sheet = nested_worksheet_parts(data["worksheet"], registry, strict)
     final = data.get("final_weight")
     final_g = to_canonical(final["value"], final["unit"])[1] if final else None
     result = check_amounts_taken(tidy(sheet.result), data["taken"], final_g, data.get("final_weight_tolerance_percent"))

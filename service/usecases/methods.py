@@ -103,6 +103,28 @@ WORKSHEET_CAUTIONS = (
     "A second pharmacist should check every quantity against this worksheet before the batch is released.",
 )
 
+COMPOUNDING_RECORD = Method(
+    name="Compounding record: the worksheet, the beyond-use date by USP <795>'s default categories, the procedure, the label "
+    "and the quality checks",
+    formula="BUD = min(compounding date + the category's days, the earliest component expiry); category by water (aqueous when the "
+    "formula holds water or the measured water activity is at least the threshold), preservative and oral liquid; oil phase heated to "
+    "max(70 °C, top of the highest melting range + 5 °C), rounded up to 5 °C",
+    source_ids=("usp-795-2023", "griffin-1949", "pasquali-2008", "usp-1176", "graduate-practice"),
+    assumptions=(
+        "The beyond-use categories are the chapter's defaults where no USP-NF compounded preparation monograph or stability study of "
+        "the preparation applies; each category is shown with its source, locator and status.",
+        "An expiry written as a month and a year is read as the last day of that month.",
+        "A surfactant goes into the phase it dissolves or disperses in: the registry's record where it has one, else Griffin's bands of "
+        "behaviour in water for its HLB.",
+        "The procedure's steps are the usual practice of the trade, for the pharmacist to confirm; the formula's own reference comes first.",
+    ),
+)
+RECORD_CAUTIONS = WORKSHEET_CAUTIONS + (
+    "A beyond-use date here is a default, not a stability finding: a stability study may support another, and local rules or the "
+    "pharmacy's own standards may set a shorter one.",
+    "Fields left blank (________) are for the people who compound and check the preparation to fill in; the record is complete only "
+    "when they are.",
+)
 AMOUNTS_TAKEN = Method(
     name="Amounts taken against the batch worksheet: deviations, batch total and yield",
     formula="deviation = taken − target, in the unit the row is measured in (g weighed, mL measured); deviation % = deviation / "

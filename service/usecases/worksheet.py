@@ -11,7 +11,7 @@ from service.usecases.answers import envelope, hlb_display, hlb_span_display, un
 from service.core import findings as core_findings
 from service.core.amounts import Amount
 from service.core.batch import mixture_mass_for_volume, qs_percent, rows_for_batch
-from service.core.errors import CalculationError
+from service.core.errors import CalculationError, FaultList
 from service.core.measure import capacity_check
 from service.usecases.oil_phase import oil_phase_hlb
 from service.usecases.measuring import equipment_from, equipment_out, Row, measure_row, row_density
@@ -323,3 +323,16 @@ def rescale(data: dict, registry: Registry, strict: bool = False) -> dict:
             ingredient["share"] = {"value": row.percent, "unit": "% w/w"}
     scaled["batch"] = dict(data["batch"])
     return worksheet(scaled, registry, strict, rescaled_from=dict(original["batch"]))
+
+
+def nested_worksheet_parts(data: dict, registry: Registry, strict: bool = False) -> Sheet:
+    """The worksheet of a request's `worksheet` member (amounts taken, a
+    compounding record), its refusals pointed at their place in that
+    request: under /worksheet."""
+    try:
+        return worksheet_parts(data, registry, strict)
+    except CalculationError as exc:
+        raise CalculationError(("worksheet",) + exc.path, exc.rule, exc.message, **exc.extra) from None
+    except FaultList as exc:
+        faults = [{**f, "pointer": f["pointer"].replace("#/", "#/worksheet/", 1)} for f in exc.faults]
+        raise type(exc)(faults, exc.detail.replace("#/", "#/worksheet/")) from None

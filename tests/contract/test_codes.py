@@ -18,7 +18,7 @@ DYNAMIC_REFUSALS = {"hlb_known", "required_hlb_known"}
 
 
 def literals() -> dict[str, set[str]]:
-    found = {"check": set(), "warning": set(), "refusal": set(), "schema": set()}
+    found = {"check": set(), "warning": set(), "refusal": set(), "schema": set(), "quality": set()}
     for path in SERVICE.rglob("*.py"):
         if path.name == "codes.py":
             continue
@@ -34,7 +34,7 @@ def literals() -> dict[str, set[str]]:
                 keys = {k.value: v for k, v in zip(node.keys, node.values) if isinstance(k, ast.Constant)}
                 code = keys.get("code")
                 if isinstance(code, ast.Constant) and isinstance(code.value, str):
-                    found["check" if "ok" in keys else "warning"].add(code.value)
+                    found["quality" if "passed" in keys else "check" if "ok" in keys else "warning"].add(code.value)
                 rule = keys.get("rule")
                 if isinstance(rule, ast.Constant) and isinstance(rule.value, str):
                     found["refusal"].add(rule.value)
@@ -46,6 +46,7 @@ def literals() -> dict[str, set[str]]:
 def test_every_code_used_is_catalogued():
     used = literals()
     assert used["check"] - set(codes.CHECKS) == set()
+    assert used["quality"] - set(codes.QUALITY_CHECKS) == set()
     assert used["warning"] - set(codes.WARNINGS) == set()
     assert (used["refusal"] | DYNAMIC_REFUSALS) - set(codes.REFUSALS) - set(SCHEMA_RULES) - {"target_outside_reachable_range"} == set()
 
@@ -53,6 +54,7 @@ def test_every_code_used_is_catalogued():
 def test_nothing_catalogued_is_unused():
     used = literals()
     assert set(codes.CHECKS) - used["check"] == set()
+    assert set(codes.QUALITY_CHECKS) - used["quality"] == set()
     base_warnings = set(codes.FINDINGS) | set(codes.PROVENANCE_WARNINGS) | set(codes.ANSWER_WARNINGS)
     assert base_warnings - used["warning"] == set()
     # InfeasibleTarget sets its rule in its constructor's super() call.
@@ -77,6 +79,7 @@ def codes_markdown() -> str:
 
     out = []
     for name, title in (("WarningCode", "Warnings (`warnings[].code`)"), ("CheckCode", "Checks (`checks[].code`; a failed one is also warned as `check_<code>`)"),
+                        ("QualityCheckCode", "Quality checks of a compounding record (`quality_checks[].code`)"),
                         ("RuleCode", "Rules (`errors[].rule` of a problem)")):
         e = ENUMS[name]
         out += [f"{title}:", "", "| code | meaning |", "|---|---|"]

@@ -64,12 +64,12 @@ def _item(value, expr: str):
 
 
 def jq_lite(value, program: str):
-    """The few jq filters the README uses: `.a.b`, `.a | map(.b)` and
-    `map([.b, .c])`."""
+    """The few jq filters the README uses: `.a.b`, `.a | map(.b)`,
+    `map([.b, .c])` and `.a | [.b, .c]`."""
     for stage in program.split("|"):
         stage = stage.strip()
         m = re.fullmatch(r"map\((.*)\)", stage)
-        value = [_item(v, m.group(1)) for v in value] if m else _path(value, stage)
+        value = [_item(v, m.group(1)) for v in value] if m else _item(value, stage)
     return value
 
 

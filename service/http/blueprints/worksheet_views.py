@@ -21,13 +21,13 @@ PAIRS_IN, PAIRS_OUT = schemas.CandidateRequestSchema(), schemas.CandidateAnswerS
 OFFERED = ["application/json", "text/markdown", "text/plain"]
 
 
-def _negotiated() -> str:
+def negotiated(offered: list[str] = OFFERED) -> str:
     """The media type to answer in; 406 when the client accepts none of ours."""
     if not request.headers.get("Accept"):
         return "application/json"
-    best = request.accept_mimetypes.best_match(OFFERED)
+    best = request.accept_mimetypes.best_match(offered)
     if best is None:
-        raise ApiProblem(406, "Not Acceptable", f"this resource is available as {', '.join(OFFERED)}")
+        raise ApiProblem(406, "Not Acceptable", f"this resource is available as {', '.join(offered)}")
     return best
 
 
@@ -44,21 +44,21 @@ def _sheet(payload: dict, media: str) -> Response:
 
 @bp.post("/worksheets")
 def create_worksheet():
-    media = _negotiated()
+    media = negotiated()
     data = load_body(SHEET_IN)
     return _sheet(worksheet.worksheet(data, _registry(), _strict(data)), media)
 
 
 @bp.post("/worksheets/rescale")
 def rescale_worksheet():
-    media = _negotiated()
+    media = negotiated()
     data = load_body(RESCALE_IN)
     return _sheet(worksheet.rescale(data, _registry(), _strict(data["worksheet"])), media)
 
 
 @bp.post("/worksheets/amounts-taken")
 def check_amounts_taken():
-    media = _negotiated()
+    media = negotiated()
     data = load_body(TAKEN_IN)
     return _as(TAKEN_OUT, taken_text, amounts_taken.amounts_taken(data, _registry(), _strict(data["worksheet"])), media)
 

@@ -85,6 +85,7 @@ ENUMS = {
     "IngredientFunction": Enum(tuple(FUNCTIONS), "What an ingredient does in a formula."),
     "WarningCode": Enum(tuple(codes.WARNINGS), "What a warning is about.", None, codes.WARNINGS),
     "CheckCode": Enum(tuple(codes.CHECKS), "What a check verifies.", None, codes.CHECKS),
+    "QualityCheckCode": Enum(tuple(codes.QUALITY_CHECKS), "A quality check a compounding record leaves to record.", None, codes.QUALITY_CHECKS),
     "RuleCode": Enum(tuple(SCHEMA_RULES) + tuple(codes.REFUSALS),
                      "The rule a problem item names: a rule of the request's schema, or a refusal of the calculation.", None,
                      {**SCHEMA_RULES, **codes.REFUSALS}),

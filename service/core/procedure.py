@@ -1,0 +1,171 @@
+"""The compounding procedure of a hot-process (or cold-process) emulsion in
+steps, from the formula's rows: which vessel each component goes into, the
+temperature the phases are heated to, the order of addition, cooling, the
+late additions and the q.s. Every rule here is the usual practice of the
+trade (common practice, no source) and each step says so, for the
+pharmacist to confirm; the data it works on (melting ranges, where a
+surfactant dissolves, volatility) come from the registry with their sources.
+
+Temperatures are degrees Celsius throughout."""
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+from service.core.findings import Finding
+
+# Phases are usually heated to about 70-75 degC (common practice, no source);
+# a component melting higher needs the oil phase this far above its melting
+# range's top to melt it fully and keep it molten while the phases are
+# combined (common practice, no source).
+USUAL_HEATING_C = 70.0
+ABOVE_MELTING_C = 5.0
+# Heat-sensitive and volatile components go in once the emulsion has cooled
+# below this (common practice, no source).
+LATE_ADDITION_BELOW_C = 40.0
+# Above this an aqueous phase loses water quickly and nears boiling: the
+# pharmacist should reconsider the method (common practice, no source).
+HIGH_PROCESS_C = 90.0
+
+COMMON_PRACTICE = "common_practice"
+REGISTRY_DATA = "registry_data"
+PHARMACIST = "pharmacist_to_decide"
+
+
+@dataclass(frozen=True)
+class ProcedureRow:
+    label: str
+    phase: str                      # oil | aqueous | other | emulsifier
+    role: str                       # ingredient | emulsifier | qs
+    physical_state: str | None      # liquid | semisolid | solid | None (unknown)
+    mass_g: float
+    dissolves_in: str | None = None     # oil | water, for a surfactant: where it goes
+    dissolves_in_basis: str | None = None
+    melting_top_c: float | None = None
+    melting_basis: str | None = None
+    late: str | None = None         # "volatile" | "heat-sensitive": added on cooling
+    is_water: bool = False
+
+
+@dataclass(frozen=True)
+class Step:
+    number: int
+    phase: str          # weigh | oil | aqueous | heat | combine | cool | late | qs | finish
+    text: str
+    basis: str          # common_practice | registry_data | pharmacist_to_decide
+    basis_note: str
+
+
+@dataclass
+class Procedure:
+    steps: list[Step]
+    oil_phase_c: float | None
+    aqueous_phase_c: float | None
+    highest_melting: ProcedureRow | None
+    heated: bool
+    findings: list[Finding] = field(default_factory=list)
+
+
+def _vessel(row: ProcedureRow) -> str:
+    """oil | aqueous | late | other: where a row goes before emulsifying."""
+    if row.late:
+        return "late"
+    if row.phase in ("oil", "aqueous"):
+        return row.phase
+    if row.phase == "emulsifier" and row.dissolves_in in ("oil", "water"):
+        return "oil" if row.dissolves_in == "oil" else "aqueous"
+    return "other"
+
+
+def _needs_melting(row: ProcedureRow) -> bool:
+    return row.physical_state in ("solid", "semisolid")
+
+
+def heating_temperature_c(melting_tops_c: list[float]) -> float:
+    """The oil phase's temperature: the usual 70 degC, or 5 degC above the
+    highest melting range's top, rounded up to a whole 5 degC."""
+    wanted = max([USUAL_HEATING_C] + [t + ABOVE_MELTING_C for t in melting_tops_c])
+    return 5.0 * math.ceil(wanted / 5.0 - 1e-9)
+
+
+def _names(rows: list[ProcedureRow]) -> str:
+    return ", ".join(f"{r.label} ({r.mass_g:.6g} g)" for r in rows)
+
+
+def procedure(emulsion_type: str, rows: list[ProcedureRow], batch_g: float) -> Procedure:
+    vessels = {v: [r for r in rows if _vessel(r) == v] for v in ("oil", "aqueous", "late", "other")}
+    oil, aqueous, late, other = vessels["oil"], vessels["aqueous"], vessels["late"], vessels["other"]
+    findings: list[Finding] = []
+    steps: list[tuple[str, str, str, str]] = []
+    practice = "common practice, no source: for the pharmacist to confirm"
+
+    steps.append(("weigh", "Weigh or measure every component as the worksheet lists it, and have each checked against the worksheet.", COMMON_PRACTICE, practice))
+
+    hot = [r for r in oil + aqueous if _needs_melting(r)]
+    unknown = [r for r in hot if r.melting_top_c is None]
+    known = [r for r in hot if r.melting_top_c is not None]
+    heated = bool(hot)
+    highest = max(known, key=lambda r: r.melting_top_c) if known else None
+    oil_c = heating_temperature_c([r.melting_top_c for r in known]) if heated else None
+
+    def placed(vessel: list[ProcedureRow]) -> tuple[str, str]:
+        """A vessel's basis: where its surfactants' placing comes from."""
+        surfactants = [r for r in vessel if r.phase == "emulsifier"]
+        if not surfactants:
+            return COMMON_PRACTICE, practice
+        why = "; ".join(f"{r.label}: {r.dissolves_in}-soluble ({r.dissolves_in_basis})" for r in surfactants)
+        return REGISTRY_DATA, f"a surfactant goes into the phase it dissolves or disperses in: {why}"
+
+    if oil:
+        steps.append(("oil", f"Oil phase: in a suitable vessel combine {_names(oil)}.", *placed(oil)))
+    if aqueous:
+        qs = [r for r in aqueous if r.role == "qs"]
+        keep = " Keep back part of the q.s. vehicle, to make up to weight at the end." if qs else ""
+        steps.append(("aqueous", f"Aqueous phase: in a second vessel dissolve or disperse {_names(aqueous)}.{keep}", *placed(aqueous)))
+    if other:
+        which = "it goes" if len(other) == 1 else "they go"
+        steps.append(("other", f"{_names(other)}: the service holds no data on which phase {which} into; add "
+                      f"{'it' if len(other) == 1 else 'each'} as the formula's reference directs.", PHARMACIST,
+                      "no registry data on the phase: the pharmacist decides"))
+        findings.append(Finding("procedure_phase_unknown", subject="other", message=f"no phase is known for {', '.join(r.label for r in other)}: the procedure leaves it to the pharmacist"))
+
+    if heated:
+        melt_note = (f"the highest-melting component of the phases is {highest.label}, melting range up to {highest.melting_top_c:g} °C "
+                     f"({highest.melting_basis}); heated to {ABOVE_MELTING_C:g} °C above it, and at least the usual {USUAL_HEATING_C:g} °C"
+                     if highest else f"no melting range is on record for the solids; the usual {USUAL_HEATING_C:g} °C is used")
+        if unknown:
+            findings.append(Finding("melting_range_unknown", subject=", ".join(r.label for r in unknown),
+                                    message=f"no melting range is on record for {', '.join(r.label for r in unknown)}: heat until every solid has "
+                                    "melted, and set the temperature by the material's specification"))
+            melt_note += f"; no melting range is on record for {', '.join(r.label for r in unknown)}: heat until melted"
+        steps.append(("heat", f"Heat the oil phase on a water bath to about {oil_c:g} °C, stirring until every solid has melted; heat the "
+                      f"aqueous phase to the same temperature (a few degrees above is usual, so that nothing congeals when the phases meet). "
+                      "Hot oils and waxes cause burns.", COMMON_PRACTICE, f"{melt_note}; common practice, no source: for the pharmacist to confirm"))
+        if oil_c >= HIGH_PROCESS_C:
+            findings.append(Finding("high_process_temperature", subject=highest.label if highest else "oil phase",
+                                    message=f"the oil phase must reach about {oil_c:g} °C, near the boiling point of the aqueous phase: water "
+                                    "evaporates quickly; consider melting the high-melting component in part of the oil first"))
+    else:
+        steps.append(("heat", "No component needs melting: the phases may be combined at room temperature (a cold process).",
+                      COMMON_PRACTICE, practice))
+
+    internal, external = ("oil", "aqueous") if emulsion_type == "O/W" else ("aqueous", "oil")
+    at = " at temperature" if heated else ""
+    steps.append(("combine", f"Add the {internal} phase (the dispersed phase) slowly to the {external} phase (the continuous phase){at}, "
+                  "stirring continuously.", COMMON_PRACTICE, f"the internal phase goes into the external one; {practice}"))
+    if heated:
+        steps.append(("cool", f"Keep stirring gently while the emulsion cools to below {LATE_ADDITION_BELOW_C:g} °C; avoid beating in air. "
+                      "It thickens as it congeals.", COMMON_PRACTICE, practice))
+    if late:
+        when = f"once the emulsion is below {LATE_ADDITION_BELOW_C:g} °C" if heated else "last"
+        steps.append(("late", f"Add {_names(late)} {when}, with stirring: {', '.join(f'{r.label} is {r.late}' for r in late)}.",
+                      REGISTRY_DATA, f"volatile or heat-sensitive components go in on cooling; {practice}"))
+    qs = [r for r in rows if r.role == "qs"]
+    if qs:
+        steps.append(("qs", f"Make up to the batch weight, {batch_g:.6g} g, with {qs[0].label} (q.s.), and mix until uniform.", COMMON_PRACTICE, practice))
+    else:
+        steps.append(("qs", f"Weigh the finished emulsion against the batch, {batch_g:.6g} g; the formula is stated in full, so there is no q.s.",
+                      COMMON_PRACTICE, practice))
+    steps.append(("finish", "Transfer to the container(s), weigh the contents, label, and record the quality checks.", COMMON_PRACTICE, practice))
+    numbered = [Step(i + 1, *s) for i, s in enumerate(steps)]
+    return Procedure(numbered, oil_c, oil_c, highest, heated, findings)
