@@ -29,11 +29,18 @@ def latin1(text: str) -> str:
     return "".join(out)
 
 
-def _pdf(paper: str):
+def _pdf(paper: str, footer: str):
     # Imported here: only a PDF request pays for loading fpdf2 (and Pillow).
     from fpdf import FPDF
 
-    pdf = FPDF(orientation="portrait", unit="mm", format=PAPER[paper])
+    class RecordPdf(FPDF):
+        def footer(self):
+            # Every page names its record and its place, for a filed copy.
+            self.set_y(-11)
+            self.set_font("helvetica", size=7.5)
+            self.cell(0, 5, latin1(f"{footer} - page {self.page_no()} of {{nb}}"), align="C")
+
+    pdf = RecordPdf(orientation="portrait", unit="mm", format=PAPER[paper])
     pdf.set_auto_page_break(auto=True, margin=15)
     pdf.set_margins(15, 15, 15)
     pdf.set_text_color(0, 0, 0)
@@ -48,8 +55,16 @@ def _table(pdf, block: Block) -> None:
 
     pdf.set_font("helvetica", size=7 if len(block.header) > 5 else 8.5)
     head = FontFace(emphasis="BOLD", fill_color=None)
+    # Each column as wide as its longest cell (free text capped, to wrap),
+    # scaled down together when they do not fit the page.
+    def natural(i: int) -> float:
+        texts = [block.header[i]] + [str(row[i]) for row in block.items]
+        return min(38.0, 2.5 + max(pdf.get_string_width(latin1(t)) for t in texts))
+    widths = [natural(i) for i in range(len(block.header))]
+    if sum(widths) > pdf.epw:
+        widths = [w * pdf.epw / sum(widths) for w in widths]
     with pdf.table(headings_style=head, line_height=3.6 if len(block.header) > 5 else 4.2, first_row_as_headings=True,
-                   text_align="LEFT", borders_layout="ALL") as table:
+                   text_align="LEFT", borders_layout="ALL", col_widths=tuple(widths), width=sum(widths), align="LEFT") as table:
         row = table.row()
         for h in block.header:
             row.cell(latin1(h))
@@ -61,8 +76,10 @@ def _table(pdf, block: Block) -> None:
 
 
 def record_pdf(answer: dict) -> bytes:
-    paper = answer["result"]["paper"]
-    pdf = _pdf(paper)
+    r = answer["result"]
+    footer = (f"Compounding record {r['preparation']['internal_id'] or ''}: {r['preparation']['name']}, compounded "
+              f"{r['compounding']['date']}; a decision aid for a qualified pharmacist")
+    pdf = _pdf(r["paper"], footer)
     pdf.add_page()
     width = pdf.epw
     for block in record_blocks(answer):
@@ -71,6 +88,9 @@ def record_pdf(answer: dict) -> bytes:
             pdf.multi_cell(width, 7, latin1(block.text), new_x="LMARGIN", new_y="NEXT")
             pdf.ln(1)
         elif block.kind == "h2":
+            if pdf.get_y() > pdf.h - 45:
+                # No heading alone at the foot of a page.
+                pdf.add_page()
             pdf.ln(1.5)
             pdf.set_font("helvetica", "B", 11)
             pdf.multi_cell(width, 6, latin1(block.text), new_x="LMARGIN", new_y="NEXT", border="B")
@@ -94,7 +114,12 @@ def record_pdf(answer: dict) -> bytes:
             pdf.set_font("helvetica", size=9)
             for label, value in block.items:
                 pdf.set_font("helvetica", "B", 9)
-                pdf.cell(55, 5.5, latin1(label) + ":")
+                if pdf.get_string_width(latin1(label) + ":") > 53:
+                    # A long label takes its own line; the value goes under it.
+                    pdf.multi_cell(width, 5.5, latin1(label) + ":", new_x="LMARGIN", new_y="NEXT")
+                    pdf.cell(55, 5.5, "")
+                else:
+                    pdf.cell(55, 5.5, latin1(label) + ":")
                 pdf.set_font("helvetica", size=9)
                 pdf.multi_cell(width - 55, 5.5, latin1(value) if value is not None else BLANK * 3, new_x="LMARGIN", new_y="NEXT")
             pdf.ln(1)

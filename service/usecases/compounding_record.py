@@ -8,6 +8,7 @@ from __future__ import annotations
 import copy
 
 from registry import Registry
+from registry.model import UNITS
 from service.core.errors import UnverifiedValuesRefused
 from service.core.procedure import ProcedureRow, procedure
 from service.usecases import methods, worksheet as worksheet_case
@@ -61,7 +62,7 @@ def _processing(row: dict, entry: dict, registry: Registry, hlb_by_row: dict, va
         source = registry.sources[melting.source_id]
         melting_basis = f"{source.id}{', ' + melting.locator if melting.locator else ''}, {melting.status}"
         values_used.add(ValueUsed.from_registry(ingredient=record.id, name=record.name, path=path, record=melting, registry=registry,
-                                                low=low, high=high, unit="°C", local=melting.local,
+                                                low=low, high=high, unit=UNITS["melting_range"], local=melting.local,
                                                 sources_disagree=figures_differ(record.comparable("melting_range"))),
                         key=lambda v: (v.ingredient, v.property))
     processing = record.processing if record else None

@@ -90,7 +90,7 @@ def test_melting_ranges_used_are_listed_with_their_provenance(client):
     answer = _post(client, DEMO).get_json()
     melting = [v for v in answer["values_used"] if v["property"] == "melting_range"]
     assert {v["ingredient"] for v in melting} >= {"cetyl-alcohol", "sorbitan-monostearate"}
-    assert all(v["unit"] == "°C" and v["source"] for v in melting)
+    assert all(v["unit"] == "degC" and v["source"] for v in melting)
 
 
 def test_without_a_preservative_the_record_takes_14_days_in_a_refrigerator(client):
