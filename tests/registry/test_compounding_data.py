@@ -228,7 +228,11 @@ def test_only_the_top_band_is_open(tree):
 # USP <795> beyond-use dates
 
 @pytest.mark.parametrize(("water", "preserved", "form", "expected"), [
-    # USP <795> (2023) default BUDs, from memory (unverified); secondary pages agree on the days.
+    # USP <795> (2023) default BUDs, section 10.3, written from memory (unverified: the chapter itself was not read).
+    # Secondary pages quoting the chapter agree on the days: 14 days refrigerated and 35 days for non-preserved and
+    # preserved aqueous forms (aw >= 0.6) (pccarx.com/Blog/usp-chapter-795-related-changes-to-formulations, 2023);
+    # 90 days for nonaqueous oral liquids and 180 for other nonaqueous forms (restorehealthconsulting.com, on the
+    # 2021 proposal, "the BUD default limits were not changed"). The storage of the 35/90/180-day rows is from memory.
     ("aqueous", False, None, ("aqueous-nonpreserved", 14, ("refrigerator",))),
     ("aqueous", True, "other", ("aqueous-preserved", 35, ("controlled_room_temperature", "refrigerator"))),
     ("nonaqueous", None, "oral_liquid", ("nonaqueous-oral-liquid", 90, ("controlled_room_temperature", "refrigerator"))),
