@@ -271,3 +271,21 @@ def test_the_amounts_taken_are_checked_in_the_record(client):
     assert final["result"] == "199.1 g" and final["passed"] is True
     text = _post(client, body, accept="text/plain").get_data(as_text=True)
     assert "21.2 g (+6.00 %, CHECK)" in text and "may not pass to the checking pharmacist" in text
+
+
+def test_strict_mode_refuses_the_unverified_beyond_use_category(client):
+    # The README's strict worksheet: every HLB, required HLB and density it
+    # uses is read in its source, so strict mode answers it as a worksheet;
+    # as a record, the beyond-use category (unverified) is refused by name.
+    sheet = {"emulsion_type": "O/W", "batch": {"value": 200, "unit": "g"}, "ingredients": [
+        {"ingredient": "mineral-oil", "phase": "oil", "share": {"value": 10, "unit": "% w/w"}},
+        {"ingredient": "isopropyl-myristate", "phase": "oil", "share": {"value": 8, "unit": "% w/w"}},
+        {"ingredient": "glycerin", "phase": "aqueous", "share": {"value": 5, "unit": "% w/w"}},
+        {"ingredient": "purified-water", "phase": "aqueous", "qs": True}],
+        "emulsifier": {"pair": [{"ingredient": "sorbitan-monooleate"}, {"ingredient": "polysorbate-80"}], "total_percent_w_w": 5}}
+    assert client.post("/v1/worksheets", json={**sheet, "strict": True}).status_code == 200
+    body = _body(worksheet=sheet, components=[], strict=True)
+    r = _post(client, body)
+    assert r.status_code == 422
+    assert [(e["pointer"], e["rule"]) for e in r.get_json()["errors"]] == [("#/preparation", "verified_values_only")]
+    assert "aqueous-nonpreserved" in r.get_json()["errors"][0]["detail"]
