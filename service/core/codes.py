@@ -83,6 +83,7 @@ ANSWER_WARNINGS = {
     "procedure_phase_unknown": "The registry holds no phase for a component: the procedure leaves where it goes to the pharmacist.",
     "melting_range_unknown": "A solid or semisolid has no melting range on record: heat until melted, by the material's specification.",
     "high_process_temperature": "The oil phase must be heated near the aqueous phase's boiling point.",
+    "water_activity_at_threshold": "A measured water activity is exactly the aqueous threshold, where readings of the chapter differ.",
     "taken_converted_with_density": "An amount taken was given as a volume for a weighed row, or as a mass for a measured one, and converted with the row's density.",
     "worksheet_checks_failed": "The worksheet the amounts were checked against has failed checks of its own, judged on the worksheet.",
 }

@@ -191,6 +191,11 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
     warnings = list(sheet.warnings) + finding_warnings(proc.findings) + (taken_warnings(taken) if taken else [])
     warnings += [{"code": f"check_{k['code']}", "subject": None, "message": k["message"]} for k in record_checks if not k["ok"]]
     category = bud["category"]
+    if prep.get("water_activity") == table.aw_threshold:
+        warnings.append({"code": "water_activity_at_threshold", "subject": "preparation",
+                         "message": f"the measured water activity is exactly the threshold, {table.aw_threshold:g}: taken as aqueous (the "
+                                    "shorter date), as the current chapter is read; an earlier reading counted only above it as aqueous. "
+                                    "Measure again, or keep the aqueous category"})
     if category["status"] == "unverified":
         warnings.append({"code": "unverified_bud_category", "subject": category["id"],
                          "message": f"the beyond-use category '{category['description']}' ({category['days']} days) is not yet checked "

@@ -105,7 +105,8 @@ def label(prep: dict, components: list[dict], bud: dict, quantity_text: str) -> 
     ]
     auxiliary = []
     if form in LIQUID_FORMS:
-        auxiliary.append({"text": SHAKE_WELL, "why": f"a {form} separates on standing (common practice, no source)"})
+        article = "an" if form[0] in "aeiou" else "a"
+        auxiliary.append({"text": SHAKE_WELL, "why": f"{article} {form} separates on standing (common practice, no source)"})
     route = ROUTE_STATEMENTS.get(prep["route"])
     if route:
         auxiliary.append({"text": route, "why": f"{prep['route']} route (common practice, no source)"})

@@ -289,3 +289,12 @@ def test_strict_mode_refuses_the_unverified_beyond_use_category(client):
     assert r.status_code == 422
     assert [(e["pointer"], e["rule"]) for e in r.get_json()["errors"]] == [("#/preparation", "verified_values_only")]
     assert "aqueous-nonpreserved" in r.get_json()["errors"][0]["detail"]
+
+
+def test_a_water_activity_at_the_threshold_is_aqueous_and_flagged(client):
+    # aw >= 0.6 is aqueous in the 2021/2023 text as secondary pages quote it; a page on the 2019
+    # text read "greater than 0.6": the boundary is warned about.
+    body = _body(preparation={**DEMO["preparation"], "water_activity": 0.6})
+    answer = _post(client, body).get_json()
+    assert answer["result"]["beyond_use_date"]["decisions"]["water"] == "aqueous"
+    assert any(w["code"] == "water_activity_at_threshold" for w in answer["warnings"])
