@@ -53,18 +53,37 @@ class Estimate:
     bracketed: bool       # the best test has a worse test on each side
     uncertainty_hlb: float
     note: str
+    # The three test HLBs the refining parabola went through (ascending),
+    # empty when the estimate was not refined by one.
+    fit_hlbs: tuple[float, ...] = ()
+
+
+def parabola_through(x: Sequence[float], y: Sequence[float]) -> tuple[float, float, float]:
+    """(a, b, c) of y = a·x² + b·x + c through three points of distinct x."""
+    (x1, x2, x3), (y1, y2, y3) = x, y
+    denom = (x1 - x2) * (x1 - x3) * (x2 - x3)
+    a = (x3 * (y2 - y1) + x2 * (y1 - y3) + x1 * (y3 - y2)) / denom
+    b = (x3 * x3 * (y1 - y2) + x2 * x2 * (y3 - y1) + x1 * x1 * (y2 - y3)) / denom
+    c = (x2 * x3 * (x2 - x3) * y1 + x3 * x1 * (x3 - x1) * y2 + x1 * x2 * (x1 - x2) * y3) / denom
+    return a, b, c
 
 
 def _vertex(x: Sequence[float], y: Sequence[float]) -> float | None:
     """The vertex of the parabola through three points, or None when they lie
     on a line."""
-    (x1, x2, x3), (y1, y2, y3) = x, y
-    denom = (x1 - x2) * (x1 - x3) * (x2 - x3)
-    a = (x3 * (y2 - y1) + x2 * (y1 - y3) + x1 * (y3 - y2)) / denom
-    b = (x3 * x3 * (y1 - y2) + x2 * x2 * (y3 - y1) + x1 * x1 * (y2 - y3)) / denom
+    a, b, _ = parabola_through(x, y)
     if a == 0:
         return None
     return -b / (2 * a)
+
+
+def parabola_points(x: Sequence[float], y: Sequence[float], n: int = 41) -> list[tuple[float, float]]:
+    """n points (x, y) of the parabola through three points, evenly from the
+    first x to the last: the refining fit, drawn."""
+    a, b, c = parabola_through(x, y)
+    low, high = x[0], x[-1]
+    xs = [low + i * (high - low) / (n - 1) for i in range(n)]
+    return [(h, (a * h + b) * h + c) for h in xs]
 
 
 def estimate_from_scores(hlbs: Sequence[float], goodness: Sequence[float], basis: str) -> Estimate:
@@ -89,8 +108,10 @@ def estimate_from_scores(hlbs: Sequence[float], goodness: Sequence[float], basis
     left, right = x[best] - x[best - 1], x[best + 1] - x[best]
     if vertex is None or not x[best - 1] <= vertex <= x[best + 1]:
         return Estimate(x[best], x[best], basis, False, True, max(left, right) / 2, "bracketed by worse tests; no curvature to refine by")
-    return Estimate(x[best], vertex, basis, abs(vertex - x[best]) > 1e-12, True, max(left, right) / 2,
-                    "bracketed by worse tests; refined by a parabola through the best test and its two neighbours")
+    refined = abs(vertex - x[best]) > 1e-12
+    return Estimate(x[best], vertex, basis, refined, True, max(left, right) / 2,
+                    "bracketed by worse tests; refined by a parabola through the best test and its two neighbours",
+                    tuple(x[best - 1: best + 2]) if refined else ())
 
 
 def estimate_from_pass_fail(hlbs: Sequence[float], passed: Sequence[bool]) -> Estimate:

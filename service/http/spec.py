@@ -53,7 +53,8 @@ ERRORS = {
     "405": "Method not allowed on this path; the Allow header lists those that are.",
     "411": "A body was sent without Content-Length (chunked bodies are refused).",
     "413": "The body is too large.",
-    "406": "None of the media types the request accepts is offered (application/json, text/markdown, text/plain; application/pdf for a compounding record).",
+    "406": "None of the media types the request accepts is offered (application/json, text/markdown, text/plain; application/pdf for a compounding record; "
+           "application/json or image/svg+xml only for a required-HLB series' read-back).",
     "415": "The body is not application/json.",
     "422": "The input broke a rule of the schema or of the calculation; each fault is named by pointer and rule. Every unknown or "
            "retired ingredient id is named at once, an unknown one with the closest ids in `suggestions`.",
@@ -63,6 +64,8 @@ SHEET_ERRORS = ("400", "405", "406", "411", "413", "415", "422")
 GET_ERRORS = ("405",)
 # Operations that also answer application/pdf.
 PDF_OPERATIONS = ("createCompoundingRecord",)
+# Operations that answer JSON or an SVG plot (and no text form).
+SVG_OPERATIONS = ("requiredHlbSeriesEvaluate",)
 
 # (path, method, operationId, summary, description, request schema, query schema, answer schema, errors, tag)
 OPERATIONS = [
@@ -120,8 +123,9 @@ OPERATIONS = [
      estimates.SeriesPlanRequestSchema, None, estimates.SeriesPlanAnswerSchema, BODY_ERRORS, "estimates"),
     ("/v1/required-hlb-series/evaluate", "post", "requiredHlbSeriesEvaluate", "Read a required-HLB test series",
      "From each test's score, pass/fail or droplet size: the oil's estimated required HLB (the best test, refined by a fit "
-     "through its neighbours), how well the tests pin it down, and a finer series to run next.",
-     estimates.SeriesEvaluateRequestSchema, None, estimates.SeriesEvaluateAnswerSchema, BODY_ERRORS, "estimates"),
+     "through its neighbours), how well the tests pin it down, and a finer series to run next. JSON, or with Accept: image/svg+xml "
+     "a plot of it: each test's observation against its HLB, the refining parabola, and the estimate with its uncertainty band.",
+     estimates.SeriesEvaluateRequestSchema, None, estimates.SeriesEvaluateAnswerSchema, SHEET_ERRORS, "estimates"),
     ("/v1/davies-groups", "get", "listDaviesGroups", "Davies group numbers",
      "The group numbers Davies' method uses, with their sources and status.",
      None, None, estimates.DaviesGroupListSchema, GET_ERRORS, "registry"),
@@ -180,10 +184,12 @@ def build_spec() -> dict:
             "operationId": op_id, "summary": summary, "description": description, "tags": [tag],
             "responses": {"200": {"description": "OK", "content": {"application/json": {"schema": out}}}},
         }
-        if "406" in errors:
+        if "406" in errors and op_id not in SVG_OPERATIONS:
             operation["responses"]["200"]["content"].update({"text/markdown": {"schema": {"type": "string"}}, "text/plain": {"schema": {"type": "string"}}})
         if op_id in PDF_OPERATIONS:
             operation["responses"]["200"]["content"]["application/pdf"] = {"schema": {"type": "string", "contentMediaType": "application/pdf"}}
+        if op_id in SVG_OPERATIONS:
+            operation["responses"]["200"]["content"]["image/svg+xml"] = {"schema": {"type": "string", "contentMediaType": "image/svg+xml"}}
         for media, named in answers_recorded.get(op_id, {}).items():
             operation["responses"]["200"]["content"][media]["examples"] = named
         if body is not None:

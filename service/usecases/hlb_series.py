@@ -10,7 +10,7 @@ from service.core.amounts import Amount, weigh
 from service.core.batch import rows_for_batch
 from service.core.errors import CalculationError
 from service.core.findings import phase_volume_findings
-from service.core.series import estimate_from_pass_fail, estimate_from_scores, finer_series, plan_points
+from service.core.series import Estimate, estimate_from_pass_fail, estimate_from_scores, finer_series, plan_points
 from service.usecases.measuring import equipment_from, equipment_out, Row, measure_row, row_density
 from service.usecases.provenance import ValuesUsed
 from service.usecases.resolution import enforce_strict, required_value, check_references, resolve
@@ -78,6 +78,26 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
                     strict=strict, extra_cautions=methods.WORKSHEET_CAUTIONS)
 
 
+def observation_kind(data: dict) -> str:
+    """Which observation the series' tests carry: mean_droplet_um, score or
+    passed (the same in every test, by the request's rules; the first of
+    these that the tests give, when a test gives several)."""
+    first = data["tests"][0]
+    return next(k for k in ("mean_droplet_um", "score", "passed") if k in first)
+
+
+def estimate_of(data: dict) -> Estimate:
+    """The required-HLB estimate from the request's tests alone."""
+    tests, kind = data["tests"], observation_kind(data)
+    hlbs = [t["hlb"] for t in tests]
+    if kind == "mean_droplet_um":
+        return estimate_from_scores(hlbs, [-t["mean_droplet_um"] for t in tests], "droplet_size")
+    if kind == "score":
+        sign = 1.0 if data.get("higher_score_is_better", True) else -1.0
+        return estimate_from_scores(hlbs, [sign * t["score"] for t in tests], "score")
+    return estimate_from_pass_fail(hlbs, [t["passed"] for t in tests])
+
+
 def evaluate(data: dict, registry: Registry, strict: bool = False) -> dict:
     check_references(data, registry)
     tests = data["tests"]
@@ -90,13 +110,7 @@ def evaluate(data: dict, registry: Registry, strict: bool = False) -> dict:
             raise CalculationError(("pair",), "pair_hlbs_differ", "the pair's two HLBs must differ")
         enforce_strict(values_used, strict)
     hlbs = [t["hlb"] for t in tests]
-    if "mean_droplet_um" in tests[0]:
-        est = estimate_from_scores(hlbs, [-t["mean_droplet_um"] for t in tests], "droplet_size")
-    elif "score" in tests[0]:
-        sign = 1.0 if data.get("higher_score_is_better", True) else -1.0
-        est = estimate_from_scores(hlbs, [sign * t["score"] for t in tests], "score")
-    else:
-        est = estimate_from_pass_fail(hlbs, [t["passed"] for t in tests])
+    est = estimate_of(data)
     ordered = sorted(hlbs)
     step = min(b - a for a, b in zip(ordered, ordered[1:]))
     reach = {"low": pair_hlbs[0], "high": pair_hlbs[1]} if pair_hlbs else data.get("pair_hlb_range", {"low": 0.0, "high": 60.0})

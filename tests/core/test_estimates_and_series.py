@@ -11,7 +11,7 @@ from service.core.estimates import (
     griffin_oxyethylene,
     griffin_saponification,
 )
-from service.core.series import estimate_from_pass_fail, estimate_from_scores, finer_series, plan_points
+from service.core.series import estimate_from_pass_fail, estimate_from_scores, finer_series, parabola_points, parabola_through, plan_points
 
 
 def test_griffin_saponification_glyceryl_monostearate():
@@ -101,3 +101,23 @@ def test_pass_fail_run():
     assert est.estimate_hlb == pytest.approx(10.0) and est.bracketed
     with pytest.raises(CalculationError):
         estimate_from_pass_fail([8, 9], [False, False])
+
+
+def test_parabola_through_three_points():
+    # Hand-computed: y = x² - 4x + 7 passes through (1, 4), (2, 3), (4, 7).
+    assert parabola_through([1, 2, 4], [4, 3, 7]) == pytest.approx((1.0, -4.0, 7.0))
+    # The curve drawn spans the three points and passes through each.
+    points = parabola_points([1, 2, 4], [4, 3, 7], n=7)
+    assert points[0] == pytest.approx((1.0, 4.0)) and points[-1] == pytest.approx((4.0, 7.0))
+    assert (2.0, 3.0) in [pytest.approx(p) for p in points]
+
+
+def test_a_refined_estimate_names_the_tests_its_parabola_went_through():
+    # Hand-computed: the best test (10, 8) and its neighbours (9, 5), (11, 6).
+    est = estimate_from_scores([12, 8, 10, 9, 11], [3, 2, 8, 5, 6], "score")
+    assert est.refined and est.fit_hlbs == (9, 10, 11)
+    a, b, _ = parabola_through(est.fit_hlbs, [5, 8, 6])
+    assert -b / (2 * a) == pytest.approx(est.estimate_hlb)
+    # Not refined: the best test at the end of the series, or pass/fail.
+    assert estimate_from_scores([8, 9, 10], [1, 2, 3], "score").fit_hlbs == ()
+    assert estimate_from_pass_fail([8, 9, 10], [False, True, False]).fit_hlbs == ()

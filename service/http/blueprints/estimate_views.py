@@ -1,13 +1,15 @@
-"""HLB estimates from composition, the required-HLB test series, and the
-Davies group table, under /v1."""
+"""HLB estimates from composition, the required-HLB test series (its
+read-back also as an SVG plot), and the Davies group table, under /v1."""
 from __future__ import annotations
 
-from flask import Blueprint
+from flask import Blueprint, Response
 
-from service.usecases import hlb_estimates, hlb_series
+from service.usecases import hlb_estimates, hlb_series, series_picture
 from service.usecases.answers import registry_version
 from service.http.blueprints.calculation_views import _registry, _strict
+from service.http.blueprints.worksheet_views import negotiated
 from service.http.bodies import answer, load_body
+from service.http.series_svg import series_svg
 from service.http.schemas import estimate_bodies as schemas
 
 bp = Blueprint("estimates", __name__, url_prefix="/v1")
@@ -16,6 +18,8 @@ EST_IN, EST_OUT = schemas.HlbEstimateRequestSchema(), schemas.HlbEstimateAnswerS
 PLAN_IN, PLAN_OUT = schemas.SeriesPlanRequestSchema(), schemas.SeriesPlanAnswerSchema()
 EVAL_IN, EVAL_OUT = schemas.SeriesEvaluateRequestSchema(), schemas.SeriesEvaluateAnswerSchema()
 GROUPS_OUT = schemas.DaviesGroupListSchema()
+# The series' read-back is JSON, or a plot of it.
+EVAL_OFFERED = ["application/json", "image/svg+xml"]
 
 
 @bp.post("/hlb-estimates")
@@ -32,8 +36,12 @@ def series_plan():
 
 @bp.post("/required-hlb-series/evaluate")
 def series_evaluate():
+    media = negotiated(EVAL_OFFERED)
     data = load_body(EVAL_IN)
-    return answer(EVAL_OUT, hlb_series.evaluate(data, _registry(), _strict(data)))
+    payload = hlb_series.evaluate(data, _registry(), _strict(data))
+    if media == "image/svg+xml":
+        return Response(series_svg(series_picture.picture(data, payload)), mimetype=media)
+    return answer(EVAL_OUT, payload)
 
 
 @bp.get("/davies-groups")

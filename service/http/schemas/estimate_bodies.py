@@ -189,6 +189,7 @@ class SeriesEvaluateRequestSchema(RuleChecks):
     pair_hlb_range = fields.Nested(HlbBoundsSchema, metadata={"description": "What the pair reaches, to keep the next series within it."})
     pair = BoundedList(fields.Nested(IngredientRefSchema), exact_items=2,
                        metadata={"description": "The series' surfactant pair: the next series is then also given as the pair's proportions, within its reach."})
+    oil = text(metadata={"description": "The oil under test, for the record and the plot's title (image/svg+xml)."})
 
     RULES = tuple(_same_in_every_test(k) for k in OBSERVATIONS) + (
         Rule("distinct_test_hlb", "tests", "Each test must have its own HLB.",
