@@ -1,6 +1,7 @@
 """Frozen records of the registry. Numbers are in canonical units: HLB and
 required HLB are dimensionless, densities are g/mL, molar masses g/mol,
-melting ranges degrees Celsius; beyond-use dates are whole days."""
+melting ranges degrees Celsius,
+acid values mg KOH per g; beyond-use dates are whole days."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field
@@ -14,8 +15,10 @@ WATER_DENSITY_25C_G_PER_ML = 0.9970476
 # figure outside is a slip of unit, in a data file or in a request.
 PLAUSIBLE_DENSITY_G_PER_ML = (0.05, 25.0)
 
-PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo", "density", "molar_mass", "melting_range")
-UNITS = {"density": "g/mL", "molar_mass": "g/mol", "melting_range": "degC"}
+PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo", "density", "molar_mass", "melting_range",
+              "acid_value")
+UNITS = {"density": "g/mL", "molar_mass": "g/mol", "melting_range": "degC",
+         "acid_value": "mg KOH/g"}
 # What a melting-range figure is (its `basis`): the pharmacopoeias state
 # waxes, fats and surfactants by one of these, each measured its own way.
 MELTING_BASES = ("melting_range", "congealing_range", "drop_point")
@@ -31,7 +34,8 @@ KINDS = ("primary_literature", "handbook", "textbook", "pharmacopeia", "standard
 # same list (a test keeps them equal), registry/FIELDS.md says what each means.
 FUNCTIONS = ("emulsifier", "co_emulsifier", "solubilizer", "wetting_agent", "opacifier", "thickener", "stiffening_agent",
              "emollient", "oil_vehicle", "humectant", "solvent", "aqueous_vehicle", "suspending_agent", "stabilizer",
-             "lubricant", "antifoaming_agent")
+             "lubricant", "antifoaming_agent",
+             "alkalizing_agent")
 
 
 @dataclass(frozen=True)

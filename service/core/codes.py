@@ -86,6 +86,11 @@ ANSWER_WARNINGS = {
     "water_activity_at_threshold": "A measured water activity is exactly the aqueous threshold, where readings of the chapter differ.",
     "taken_converted_with_density": "An amount taken was given as a volume for a weighed row, or as a mass for a measured one, and converted with the row's density.",
     "worksheet_checks_failed": "The worksheet the amounts were checked against has failed checks of its own, judged on the worksheet.",
+    "soap_is_anionic": "A soap formed in the batch is an anionic emulsifier: count it in the emulsifier system, keep cationics out.",
+    "alkali_in_excess": "The alkali given is more than the free acid takes: the excess stays unreacted and the preparation alkaline.",
+    "soap_mass_needs_acid_molar_mass": "The material is not all free acid: the soap's mass needs the free acids' mean molar mass.",
+    "alkali_assay_assumed": "A hydroxide was taken as 100 % pure; the pharmacopeial material is less: give its assay.",
+    "gum_proportions_common_practice": "The primary-emulsion proportions are common practice, recalled, not read in a text.",
 }
 WARNINGS = {**FINDINGS, **PROVENANCE_WARNINGS, **ANSWER_WARNINGS,
             **{f"check_{code}": f"A check failed: {meaning}" for code, meaning in CHECKS.items()}}
@@ -149,6 +154,10 @@ REFUSALS = {
     "taken_row_exists": "An amount taken names a row the worksheet has.",
     "taken_row_once": "Each worksheet row has at most one amount taken.",
     "taken_ingredient_matches_row": "An amount taken that names an ingredient names the one on its row.",
+    "acid_value_known": "An acid value is known for the fatty acid or wax (the registry's, or given).",
+    "fraction_or_alkali_mass": "A soap made in place is given the fraction to neutralise or the mass of alkali, not both.",
+    "known_oil_kind": "The kind of oil is one the primary-emulsion proportions cover (fixed, mineral, volatile).",
+    "final_holds_primary_emulsion": "The final amount is more than the primary emulsion it is made from.",
 }
 
 __all__ = ["ANSWER_WARNINGS", "CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "QUALITY_CHECKS", "RECORD_CHECKS", "REFUSALS", "ROW_CHECKS", "TAKEN_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]

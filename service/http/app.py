@@ -23,6 +23,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     from service.http import requests_seen
     from service.http.jsonio import StrictJSONProvider
     from service.http.spec import build_spec, spec_json
+    from service.http.blueprints import soap_views
 
     settings = Settings.from_env()
     if config:
@@ -48,6 +49,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     headers.install(app, tokens_required=bool(settings.api_tokens))
     for module in (calculation_views, worksheet_views, record_views, estimate_views, ingredient_views, meta_views):
         app.register_blueprint(module.bp)
+    app.register_blueprint(soap_views.bp)
 
     @app.after_request
     def _registry_header(response):

@@ -17,6 +17,7 @@ from service.http import answer_examples
 from service.http.access import OPEN_PATHS
 from service.http.spec_examples import EXAMPLES, PATH_EXAMPLES, QUERY_EXAMPLES
 from service.http.schemas import calculation_requests as calculations, estimate_bodies as estimates, ingredient_bodies as ingredients, meta
+from service.http.schemas import soap_bodies as soap_schemas
 from service.http.schemas import amounts_taken_bodies as taken, record_bodies as records, responses as answers, worksheet_bodies as worksheets
 from service.http.schemas.fields import Boolean, Number, QueryNumber
 from service.http.schemas.enums import publish as publish_enums
@@ -129,6 +130,15 @@ OPERATIONS = [
     ("/v1/davies-groups", "get", "listDaviesGroups", "Davies group numbers",
      "The group numbers Davies' method uses, with their sources and status.",
      None, None, estimates.DaviesGroupListSchema, GET_ERRORS, "registry"),
+    ("/v1/soaps/in-place", "post", "soapInPlace", "Soap made in place",
+     "A fatty acid (or the free acids of a wax) partly neutralised in the batch by triethanolamine, potassium or sodium hydroxide, or "
+     "borax: from its acid value (the registry's or the request's) and the fraction to neutralise (or the alkali's mass), the alkali "
+     "to weigh, the soap formed, the free acid left and the coproducts (water, boric acid). The soap is an anionic emulsifier.",
+     soap_schemas.SoapRequestSchema, None, soap_schemas.SoapAnswerSchema, BODY_ERRORS, "calculations"),
+    ("/v1/gum-emulsions", "post", "gumEmulsion", "Gum (acacia) emulsion",
+     "The primary emulsion for an amount of oil by kind of oil (fixed 4:2:1, mineral 3:2:1, volatile 2:2:1 oil : water : gum, "
+     "common practice), the dry-gum and wet-gum methods as steps, and the rest of the water to a final volume (q.s.) or mass.",
+     soap_schemas.GumEmulsionRequestSchema, None, soap_schemas.GumEmulsionAnswerSchema, BODY_ERRORS, "calculations"),
     ("/v1/ingredients", "get", "listIngredients", "List ingredients",
      "Current ingredients in the registry, sorted by name, with their preferred figures: searched with `q` (a case-insensitive "
      "part of a name, synonym or id), and filtered by role, function, ionic class and HLB range.",

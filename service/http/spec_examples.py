@@ -147,6 +147,28 @@ EXAMPLES["createCompoundingRecord"] = {
     },
 }
 
+# The unit's vanishing-cream base (invented for the demo): stearic acid a
+# fifth neutralised by triethanolamine; and an oral mineral-oil emulsion.
+EXAMPLES["soapInPlace"] = {
+    "vanishing_cream": {
+        "summary": "Stearic acid for a 200 g cream, a fifth neutralised by triethanolamine",
+        "value": {"ingredient": "stearic-acid", "acid_mass": {"value": 30, "unit": "g"}, "base": "triethanolamine",
+                  "neutralised_fraction": 0.2},
+    },
+    "cold_cream": {
+        "summary": "White wax with the borax of a cold cream: the fraction neutralised",
+        "value": {"ingredient": "white-wax", "acid_mass": {"value": 24, "unit": "g"}, "base": "sodium-borate",
+                  "base_mass": {"value": 1, "unit": "g"}},
+    },
+}
+EXAMPLES["gumEmulsion"] = {
+    "mineral_oil": {
+        "summary": "50 mL of mineral oil made into 100 mL of emulsion with acacia",
+        "value": {"oil_kind": "mineral", "oil": {"ingredient": "mineral-oil"}, "oil_amount": {"value": 50, "unit": "mL"},
+                  "final": {"value": 100, "unit": "mL"}},
+    },
+}
+
 # Requests without a body: the query or path of each operation's example.
 GET_EXAMPLES = {
     "listDaviesGroups": ("all", "The group numbers", "/v1/davies-groups"),

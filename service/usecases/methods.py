@@ -197,3 +197,38 @@ CAUTIONS = (
     "HLB and required-HLB values are approximate and published values disagree; each value used is listed "
     "with its source and status, and a range is given where sources differ.",
 )
+
+SOAP_IN_PLACE = Method(
+    name="Soap made in place: a fatty acid (or a wax's free acids) partly neutralised by an alkali",
+    formula="n_acid = AV × m / M(KOH) / 1000 (AV mg KOH/g, m g, M(KOH) = 56.1056 g/mol); n_alkali = f × n_acid / e "
+    "(e = 1 for triethanolamine, potassium and sodium hydroxide, 2 for borax decahydrate); M_acid = 1000·M(KOH)/AV; "
+    "soap = f·n_acid·(M_acid + M_alkali/e − Σ coproducts); free acid = (1 − f)·n_acid·M_acid",
+    source_ids=("practice-soap-in-place", "iupac-atomic-weights"),
+    assumptions=(
+        "The acid value counts every free acid as monobasic; the moles of acid are those one mole of KOH each neutralises.",
+        "M_acid = 1000·M(KOH)/AV is the saponification-equivalent mean molar mass: the acid's own only when the whole material is "
+        "free acid. For a wax, whose free acids are a small part of it, it is the wax's mass per mole of free acid; the soap's "
+        "and the free acid's masses then need the acids' own mean molar mass (free_acid_molar_mass_g_per_mol).",
+        "Triethanolamine, potassium and sodium hydroxide give one equivalent of base per mole; borax decahydrate two "
+        "(Na2B4O7·10H2O + 2 RCOOH → 2 RCOONa + 4 H3BO3 + 5 H2O): stoichiometry of the balanced equations.",
+        "A hydroxide gives one mole of water per mole of acid; triethanolamine forms its salt with no water; borax releases its "
+        "water of crystallisation and boric acid. The soap's mass follows by mass balance.",
+        "The reaction is taken as complete for the fraction neutralised; the alkali's assay is 100 % unless given.",
+        "Molar masses from formulas use standard atomic weights (molmass); the alkali's is the registry's, in values_used.",
+    ),
+)
+GUM_EMULSION = Method(
+    name="Gum (acacia) emulsion: the primary emulsion by kind of oil, and the water to final amount",
+    formula="oil : water : gum = 4 : 2 : 1 (fixed oil), 3 : 2 : 1 (mineral oil), 2 : 2 : 1 (volatile oil); oil and water in parts "
+    "by volume, gum in parts by weight: gum g = oil mL × 1/oil parts, water mL = oil mL × 2/oil parts",
+    source_ids=("practice-gum-primary-emulsion",),
+    assumptions=(
+        "The proportions are common practice, recalled from memory of standard pharmaceutics texts (not read in one); two teaching "
+        "pages read agree (see the source's note).",
+        "The gum is the whole of the emulsifier, and the oil the whole of the oil phase; the primary emulsion's gum and oil are "
+        "their amounts in the final emulsion.",
+        "Oil given by mass is turned into a volume with its density; water is purified water at its density in values_used.",
+        "The rest of the water is added after the primary emulsion has formed; to a final volume it is q.s. in a calibrated "
+        "vessel (volumes do not add exactly), to a final mass it is weighed.",
+    ),
+)

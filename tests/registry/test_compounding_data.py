@@ -30,6 +30,7 @@ SOLID_WITHOUT_MELTING_RANGE = {
     "acacia", "gelatin", "methylcellulose", "tragacanth",  # hydrocolloids
     "potassium-oleate", "sodium-oleate",  # soaps
     "lecithin", "polyoxyl-20-oleyl-ether", "polysorbate-61", "polysorbate-65", "shea-butter",  # no figure recalled
+    "potassium-hydroxide", "sodium-borate", "sodium-hydroxide",  # alkalis, dissolved in the water phase
 }
 # Figures read in a stored copy of the pharmacopeial monograph (each value's
 # note quotes the line): (id, source, basis, low, high).

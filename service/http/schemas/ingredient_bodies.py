@@ -68,6 +68,8 @@ class IngredientValuesSchema(Schema):
     molar_mass = fields.List(fields.Nested(ValueRecordSchema), required=True)
     melting_range = fields.List(fields.Nested(ValueRecordSchema), required=True, metadata={
         "description": "Melting, congealing or drop-point ranges, degC (`basis` says which)."})
+    acid_value = fields.List(fields.Nested(ValueRecordSchema), required=True, metadata={
+        "description": "Acid values, mg KOH per g: the free acids a soap made in place can form from."})
 
 
 class IngredientSummarySchema(Schema):
