@@ -148,6 +148,13 @@ REFUSALS = {
     "taken_row_exists": "An amount taken names a row the worksheet has.",
     "taken_row_once": "Each worksheet row has at most one amount taken.",
     "taken_ingredient_matches_row": "An amount taken that names an ingredient names the one on its row.",
+    # POST /v1/blends/solve
+    "constraints_consistent": "A blend's bounds, fixed shares and ratios can hold together with its shares adding up to 100 %.",
+    "target_reachable_under_constraints": "The target HLB lies within what the blend reaches under its constraints (the problem names the nearest reachable HLB and the constraints that bind there).",
+    "ratio_member_exists": "A ratio names members the blend has (counted from 0).",
+    "ratio_members_differ": "A ratio is between two different members.",
+    "ionic_class_known": "The least_ionic objective knows every member's ionic class.",
+    "solution_found": "The solver found shares that meet every constraint and the target within 1e-9.",
 }
 
 __all__ = ["ANSWER_WARNINGS", "CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "QUALITY_CHECKS", "RECORD_CHECKS", "REFUSALS", "ROW_CHECKS", "TAKEN_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]

@@ -18,6 +18,7 @@ POST_PATHS = {
     "checkAmountsTaken": "/v1/worksheets/amounts-taken", "createCompoundingRecord": "/v1/compounding-records",
     "candidatePairs": "/v1/candidate-pairs", "hlbEstimate": "/v1/hlb-estimates", "requiredHlbSeriesPlan": "/v1/required-hlb-series/plan",
     "requiredHlbSeriesEvaluate": "/v1/required-hlb-series/evaluate",
+    "solveBlend": "/v1/blends/solve",
 }
 # Operations whose example is also recorded as the Markdown worksheet.
 MARKDOWN = ("createWorksheet", "checkAmountsTaken", "createCompoundingRecord")
