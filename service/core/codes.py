@@ -158,6 +158,13 @@ REFUSALS = {
     "fraction_or_alkali_mass": "A soap made in place is given the fraction to neutralise or the mass of alkali, not both.",
     "known_oil_kind": "The kind of oil is one the primary-emulsion proportions cover (fixed, mineral, volatile).",
     "final_holds_primary_emulsion": "The final amount is more than the primary emulsion it is made from.",
+    # POST /v1/blends/solve
+    "constraints_consistent": "A blend's bounds, fixed shares and ratios can hold together with its shares adding up to 100 %.",
+    "target_reachable_under_constraints": "The target HLB lies within what the blend reaches under its constraints (the problem names the nearest reachable HLB and the constraints that bind there).",
+    "ratio_member_exists": "A ratio names members the blend has (counted from 0).",
+    "ratio_members_differ": "A ratio is between two different members.",
+    "ionic_class_known": "The least_ionic objective knows every member's ionic class.",
+    "solution_found": "The solver found shares that meet every constraint and the target within 1e-9.",
 }
 
 __all__ = ["ANSWER_WARNINGS", "CHECKS", "FINDINGS", "PROVENANCE_WARNINGS", "QUALITY_CHECKS", "RECORD_CHECKS", "REFUSALS", "ROW_CHECKS", "TAKEN_CHECKS", "WARNINGS", "WORKSHEET_CHECKS"]

@@ -20,6 +20,7 @@ from service.http.schemas import calculation_requests as calculations, estimate_
 from service.http.schemas import soap_bodies as soap_schemas
 from service.http.schemas import amounts_taken_bodies as taken, record_bodies as records, responses as answers, worksheet_bodies as worksheets
 from service.http.schemas.fields import Boolean, Number, QueryNumber
+from service.http.schemas import blend_bodies
 from service.http.schemas.enums import publish as publish_enums
 from service.http.schemas.rules import RuleChecks, published
 from service.http.logs import REQUEST_ID_PATTERN
@@ -155,6 +156,14 @@ OPERATIONS = [
      "200 once the registry is loaded, with the registry version served. The service binds its port only after loading "
      "the registry, and refuses to start on a broken one, so an answer is always 200.",
      None, None, meta.ReadySchema, GET_ERRORS, "service"),
+    ("/v1/blends/solve", "post", "solveBlend", "Shares of three or more surfactants for a target HLB, under constraints",
+     "Solves the shares of two or more surfactants (registry ids or inline) that reach a target HLB under the caller's constraints: "
+     "a member fixed at a share, a ratio between two members, bounds on each member's share; optionally scaled to a total mass or "
+     "volume. Among the many answers the objective chooses one: most_even (nearest to equal shares, the default) or least_ionic. "
+     "The answer gives each share, the HLB reached (recomputed), the reachable range under the constraints and which constraints are "
+     "active. Constraints that cannot hold, or a target out of reach under them, are a 422 naming the nearest reachable HLB and the "
+     "constraints that bind there, in words and by pointer.",
+     blend_bodies.BlendSolveRequestSchema, None, blend_bodies.BlendSolveAnswerSchema, BODY_ERRORS, "calculations"),
 ]
 
 # Every answer carries the request's id; a caller may choose it.

@@ -181,3 +181,31 @@ GET_EXAMPLES = {
 QUERY_EXAMPLES = {"listIngredients": {"q": "oleate", "function": "emulsifier"}}
 PATH_EXAMPLES = {"getIngredient": {"ingredient_id": "polysorbate-80"}}
 
+
+# The hand lotion's emulsifier system as three surfactants: the 10 g of the
+# 200 g batch, polysorbate 80 held to at most a fifth of it; and the same with
+# a ratio and a fixed share, chosen for the least ionic share.
+EXAMPLES["solveBlend"] = {
+    "three_surfactants": {
+        "summary": "Three surfactants for HLB 11.6, one bounded, scaled to 10 g",
+        "value": {
+            "target_hlb": 11.6,
+            "surfactants": [{"ingredient": "sorbitan-monostearate"}, {"ingredient": "polysorbate-60"},
+                            {"ingredient": "polysorbate-80", "max_percent_w_w": 20}],
+            "total": {"value": 10, "unit": "g"},
+            "emulsion_type": "O/W",
+        },
+    },
+    "ratio_and_fixed": {
+        "summary": "Five surfactants, one fixed at 10 %, two in the ratio 1 : 2, the least ionic share",
+        "value": {
+            "target_hlb": 11.6,
+            "surfactants": [{"ingredient": "sorbitan-monostearate"}, {"ingredient": "polysorbate-60"},
+                            {"ingredient": "glyceryl-monostearate", "fixed_percent_w_w": 10}, {"ingredient": "polysorbate-80"},
+                            {"ingredient": "sodium-lauryl-sulfate", "max_percent_w_w": 5}],
+            "ratios": [{"a": 0, "b": 1, "a_parts": 1, "b_parts": 2}],
+            "objective": "least_ionic",
+            "emulsion_type": "O/W",
+        },
+    },
+}

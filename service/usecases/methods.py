@@ -232,3 +232,27 @@ GUM_EMULSION = Method(
         "vessel (volumes do not add exactly), to a final mass it is weighed.",
     ),
 )
+# Shares of a blend of two or more surfactants under constraints (POST /v1/blends/solve).
+BLEND_OBJECTIVES = {
+    "most_even": "the shares nearest to equal shares: the least sum of squared deviations from 100/n % each",
+    "least_ionic": "the least total share of ionic (anionic, cationic, amphoteric) members; among the answers with that share, "
+                   "the most even",
+}
+BLEND_SOLVE = Method(
+    name="Shares of a surfactant blend for a target HLB under constraints",
+    formula="Σ xᵢ = 1, Σ xᵢ·HLBᵢ = T, lᵢ ≤ xᵢ ≤ uᵢ, xᵢ = fᵢ for a fixed share, b·x_a = a·x_b for a ratio a : b; "
+    "reachable range = min and max of Σ xᵢ·HLBᵢ under the constraints (linear programs, HiGHS); most_even: min Σ (xᵢ − 1/n)² "
+    "(SLSQP, then solved exactly on the face it reaches); least_ionic: min Σ ionic xᵢ first (a linear program), then most_even",
+    source_ids=("griffin-1949", "pasquali-2008"),
+    assumptions=(
+        ADDITIVITY,
+        "Shares are of the blend (the emulsifier system), by mass; bounds, fixed shares and ratios are by mass too.",
+        "With more than two members many shares reach the target: the objective named in the answer chose one; the HLB "
+        "arithmetic says nothing of which gives the more stable emulsion.",
+        "The HLB reached is recomputed from the shares and must meet the target within 1e-9; a constraint is active when it "
+        "holds with equality at the answer.",
+        "A target out of reach is refused with the nearest reachable HLB and the constraints that bind there: those whose "
+        "marginal in the linear program is not zero, so that relaxing one moves the end of the range towards the target.",
+        "A total given as a volume assumes the surfactants' volumes add on mixing.",
+    ),
+)

@@ -7,6 +7,8 @@ from service.usecases import hlb_calculations
 from service.http.bodies import answer, load_body
 from service.http.schemas import responses as out
 from service.http.schemas import calculation_requests as req
+from service.http.schemas import blend_bodies
+from service.usecases import constrained_blend
 
 bp = Blueprint("calculations", __name__, url_prefix="/v1")
 
@@ -48,3 +50,12 @@ def oil_phase_required_hlb():
 @bp.post("/emulsifier/minimum")
 def emulsifier_minimum():
     return answer(MINEM_OUT, hlb_calculations.emulsifier_minimum(load_body(MINEM_IN), _registry()))
+
+
+BLEND_SOLVE_IN, BLEND_SOLVE_OUT = blend_bodies.BlendSolveRequestSchema(), blend_bodies.BlendSolveAnswerSchema()
+
+
+@bp.post("/blends/solve")
+def blend_solve():
+    data = load_body(BLEND_SOLVE_IN)
+    return answer(BLEND_SOLVE_OUT, constrained_blend.solve(data, _registry(), _strict(data)))

@@ -89,6 +89,9 @@ ENUMS = {
     "RuleCode": Enum(tuple(SCHEMA_RULES) + tuple(codes.REFUSALS),
                      "The rule a problem item names: a rule of the request's schema, or a refusal of the calculation.", None,
                      {**SCHEMA_RULES, **codes.REFUSALS}),
+    "BlendObjective": Enum(("most_even", "least_ionic"), "How a blend's shares are chosen among the many that reach the target.", None, {
+        "most_even": "The shares nearest to equal shares (least sum of squared deviations).",
+        "least_ionic": "The least total share of ionic members; ties broken by most_even."}),
 }
 
 

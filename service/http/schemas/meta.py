@@ -18,6 +18,13 @@ class ReadySchema(Schema):
     registry = fields.Nested(RegistryVersionSchema, required=True)
 
 
+class BindingConstraintSchema(Schema):
+    kind = fields.String(required=True, metadata={"description": "fixed, lower_bound, upper_bound or ratio."})
+    pointer = fields.String(required=True, metadata={"description": "The request field that states it; a member's own pointer for its natural bounds."})
+    description = fields.String(required=True)
+    given = fields.Boolean(required=True, metadata={"description": "false for the natural bounds of a share, 0 and 100 %."})
+
+
 class ProblemItemSchema(Schema):
     pointer = fields.String(metadata={"description": "JSON pointer (URI-fragment form) to the offending field of the body."})
     parameter = fields.String(metadata={"description": "The offending query parameter."})
@@ -25,6 +32,9 @@ class ProblemItemSchema(Schema):
     detail = fields.String(required=True)
     suggestions = fields.List(fields.String(), metadata={
         "description": "For an unknown ingredient id (rule known_ingredient): the closest registry ids, best first; may be empty."})
+    binding = fields.List(fields.Nested(BindingConstraintSchema), metadata={
+        "description": "For a blend's constraints or target refused (constraints_consistent, target_reachable_under_constraints): "
+                       "the constraints that bind at the nearest reachable point, the caller's first."})
 
     class Meta:
         unknown = "include"
