@@ -85,7 +85,8 @@ class ConstraintsRefused(CalculationError):
     names the constraints that decide it."""
 
     def __init__(self, path: tuple, rule: str, message: str, binding: Sequence[Constraint], **extra):
-        super().__init__(path, rule, message, binding=[_binding_dict(c) for c in binding], **extra)
+        # Figures cut to 10 significant digits, as every answer's are: 10.594999999999999 is float noise, not precision.
+        super().__init__(path, rule, message, binding=[_binding_dict(c) for c in binding], **{k: float(f"{v:.10g}") for k, v in extra.items()})
 
 
 def _binding_dict(c: Constraint) -> dict:

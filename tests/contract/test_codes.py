@@ -27,7 +27,8 @@ def literals() -> dict[str, set[str]]:
                 name = node.func.id if isinstance(node.func, ast.Name) else getattr(node.func, "attr", None)
                 index, kind = {"Check": (0, "check"), "Finding": (0, "warning"), "CalculationError": (1, "refusal"),
                                "invalid": (1, "refusal"), "at": (1, "refusal"), "add": (1, "refusal"),
-                               "Fault": (1, "schema"), "named": (0, "schema")}.get(name, (None, None))
+                               "Fault": (1, "schema"), "named": (0, "schema"),
+                               "ConstraintsRefused": (1, "refusal")}.get(name, (None, None))
                 if index is not None and len(node.args) > index and isinstance(node.args[index], ast.Constant):
                     found[kind].add(node.args[index].value)
             elif isinstance(node, ast.Dict):
