@@ -5,8 +5,9 @@ so the three forms carry the same content. Text here is the answer's, not
 yet escaped: each renderer escapes it for its form."""
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
+
+from service.http.worksheet_text import _mass
 
 BLANK = "________"
 
@@ -17,14 +18,6 @@ class Block:
     text: str = ""
     items: tuple = ()  # list items; table rows (tuples of cells); fields (label, value or None)
     header: tuple = ()
-
-
-def _mass(value: float, unit: str, readability_g: float) -> str:
-    """A mass as the balance reads it (grams to the readability)."""
-    if unit != "g":
-        return f"{value:.6g}"
-    decimals = max(0, round(-math.log10(readability_g)))
-    return f"{value:.{decimals}f}"
 
 
 def _or_blank(value) -> str | None:

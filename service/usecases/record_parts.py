@@ -7,6 +7,8 @@ memory of the chapter (source usp-795-2023, unverified): the registry's
 steward checks them against the text."""
 from __future__ import annotations
 
+from service.usecases.beyond_use import LIQUID_FORMS
+
 PLACEHOLDER = "________"
 
 ROUTE_STATEMENTS = {
@@ -19,7 +21,6 @@ ROUTE_STATEMENTS = {
 # Emulsions separate on freezing (common practice, no source).
 DO_NOT_FREEZE = "Do not freeze."
 SHAKE_WELL = "Shake well before use."
-LIQUID_FORMS = ("lotion", "emulsion")
 
 # (element, where in the record's result it is held): the master formulation
 # record and the compounding record of USP <795> (from memory, not read).
