@@ -99,7 +99,7 @@ def interface_estimate(dispersed_volume_ml: float, d32_um: float, members: Seque
     dissolved at the CMC in the continuous phase (left out, as None, when any
     member's CMC is unknown). Raises CalculationError for inputs outside the domain."""
     if not members:
-        raise CalculationError(("surfactants",), "min_items", "give at least one surfactant")
+        raise CalculationError(("surfactants",), "list_length", "give at least one surfactant")
     fractions = [m.mole_fraction for m in members]
     if any(x <= 0 for x in fractions) or abs(sum(fractions) - 1.0) > MOLE_FRACTION_SLACK:
         raise CalculationError(("surfactants",), "mole_fractions_add_up", "the mole fractions must be positive and add up to 1")

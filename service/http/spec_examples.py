@@ -233,8 +233,8 @@ EXAMPLES["emulsifierInterfaceEstimate"] = {
             "droplets": {"distribution": [{"diameter_um": 1, "count": 600}, {"diameter_um": 2, "count": 300},
                                           {"diameter_um": 5, "count": 100}]},
             "surfactants": [{"ingredient": "polysorbate-80", "mole_fraction": 0.6},
-                            {"ingredient": "sorbitan-monooleate", "mole_fraction": 0.4, "area_per_molecule_nm2": 0.5,
-                             "area_basis": "oil_water", "molar_mass_g_per_mol": 428.6}],
+                            {"ingredient": "sorbitan-monooleate", "mole_fraction": 0.4, "area_per_molecule": {"nm2": 0.5, "basis": "oil_water"},
+                             "molar_mass_g_per_mol": 428.6}],
         },
     },
 }

@@ -16,10 +16,9 @@ from service.core.errors import CalculationError
 from service.usecases.resolution import (Faults, Resolved, _caller_value, _registry_value, amount, check_references, checked_density,
                                          density_value, enforce_strict, invalid, resolve, usual_emulsifier_high_percent)
 
-# What a member's figure is called in the request, the registry and values_used, with its unit.
-MEMBER_FIGURES = (("area_per_molecule_nm2", "area_per_molecule", "nm2"), ("molar_mass_g_per_mol", "molar_mass", "g/mol"),
-                  ("cmc_mmol_per_l", "cmc", "mmol/L"))
-NEEDED = {"area_per_molecule": "area_per_molecule_known", "molar_mass": "molar_mass_known"}
+# Each figure of a member, as values_used names it, with its unit.
+MEMBER_FIGURES = (("area_per_molecule", "nm2"), ("molar_mass", "g/mol"), ("cmc", "mmol/L"))
+GIVEN_KEYS = {"molar_mass": "molar_mass_g_per_mol", "cmc": "cmc_mmol_per_l"}
 
 
 def _area_record(item: Resolved) -> ValueRecord | None:
@@ -32,17 +31,29 @@ def _area_record(item: Resolved) -> ValueRecord | None:
     return item.record.preferred("area_per_molecule") if item.record else None
 
 
-def _member_figure(item: Resolved, given: dict, key: str, prop: str, unit: str, registry: Registry,
+def _given_figure(given: dict, prop: str) -> tuple[float, str | None] | None:
+    if prop == "area_per_molecule":
+        area = given.get("area_per_molecule")
+        return (area["nm2"], area["basis"]) if area else None
+    return (given[GIVEN_KEYS[prop]], None) if GIVEN_KEYS[prop] in given else None
+
+
+def _member_figure(item: Resolved, given: dict, prop: str, unit: str, registry: Registry,
                    values_used: ValuesUsed) -> tuple[float | None, str | None]:
-    """(figure, basis) from the request, else the registry; (None, None) when
-    neither has it. A figure every estimate needs is refused when missing."""
-    if key in given:
-        values_used.add(_caller_value(item, prop, given[key], unit))
-        return given[key], given.get("area_basis")
+    """(figure, basis) from the request, else the registry; (None, None) for
+    an unknown CMC. An area or a molar mass is refused when neither has it."""
+    from_request = _given_figure(given, prop)
+    if from_request is not None:
+        values_used.add(_caller_value(item, prop, from_request[0], unit))
+        return from_request
     record = _area_record(item) if prop == "area_per_molecule" else (item.record.preferred(prop) if item.record else None)
+    if record is None and prop == "area_per_molecule":
+        raise invalid(item.path + ("area_per_molecule",), "area_per_molecule_known",
+                      f"no area per molecule is known for {item.label}: give 'area_per_molecule' (nm2 and its interface)")
+    if record is None and prop == "molar_mass":
+        raise invalid(item.path + ("molar_mass_g_per_mol",), "molar_mass_known",
+                      f"no molar mass is known for {item.label}: give 'molar_mass_g_per_mol'")
     if record is None:
-        if prop in NEEDED:
-            raise invalid(item.path + (key,), NEEDED[prop], f"no {prop.replace('_', ' ')} is known for {item.label}: give '{key}'")
         return None, None
     values_used.add(_registry_value(item, record, registry, unit))
     return record.figure, record.basis
@@ -50,8 +61,7 @@ def _member_figure(item: Resolved, given: dict, key: str, prop: str, unit: str, 
 
 def _member(given: dict, path: tuple, registry: Registry, values_used: ValuesUsed, faults: Faults):
     item = resolve(given, path, registry)
-    figures = {prop: faults.run(_member_figure, item, given, key, prop, unit, registry, values_used)
-               for key, prop, unit in MEMBER_FIGURES}
+    figures = {prop: faults.run(_member_figure, item, given, prop, unit, registry, values_used) for prop, unit in MEMBER_FIGURES}
     return item, figures
 
 

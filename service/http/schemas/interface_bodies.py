@@ -8,7 +8,7 @@ from registry.model import AREA_BASES
 from service.http.schemas.common import AbsoluteAmountSchema, DensitySchema, IngredientRefSchema
 from service.http.schemas.fields import Boolean, BoundedList, Number, one_of
 from service.http.schemas.responses import answer
-from service.http.schemas.rules import RuleChecks, exactly_one, requires
+from service.http.schemas.rules import RuleChecks, exactly_one
 
 NullableNumber = lambda **kw: fields.Float(allow_none=True, **kw)  # noqa: E731
 NullableString = lambda **kw: fields.String(allow_none=True, **kw)  # noqa: E731
@@ -37,15 +37,16 @@ class DropletsSchema(RuleChecks):
     RULES = (exactly_one("d32_um", "distribution", "Give exactly one of 'd32_um' or 'distribution'."),)
 
 
+class AreaGivenSchema(Schema):
+    nm2 = Number(required=True, exclusive_minimum=0, maximum=20, metadata={"description": "Area per molecule in a saturated monolayer, nm2."})
+    basis = one_of(AREA_BASES, required=True, metadata={"description": "The interface it was measured at."})
+
+
 class InterfaceSurfactantSchema(IngredientRefSchema):
     mole_fraction = Number(exclusive_minimum=0, maximum=1, metadata={"description": "Its mole fraction in the blend; needed for each member of a blend."})
-    area_per_molecule_nm2 = Number(exclusive_minimum=0, maximum=20, metadata={"description": "Overrides the registry's; needs `area_basis`."})
-    area_basis = one_of(AREA_BASES, metadata={"description": "The interface the given area was measured at."})
+    area_per_molecule = fields.Nested(AreaGivenSchema, metadata={"description": "Overrides the registry's, with the interface it was measured at."})
     molar_mass_g_per_mol = Number(minimum=40, maximum=1e6, metadata={"description": "Overrides the registry's (a lot's certificate)."})
     cmc_mmol_per_l = Number(exclusive_minimum=0, maximum=1000, metadata={"description": "Overrides the registry's critical micelle concentration."})
-
-    RULES = IngredientRefSchema.RULES + (
-        requires("area_per_molecule_nm2", "area_basis", "Give 'area_basis' (oil_water or air_water) with 'area_per_molecule_nm2'."),)
 
 
 class InterfaceEstimateRequestSchema(RuleChecks):
