@@ -129,8 +129,10 @@ def _practice(data, members, fractions, dispersed, continuous, registry, values_
     if "required_hlb" not in data:
         return None, [{"code": "practice_estimate_left_out", "subject": "required_hlb",
                        "message": "no required_hlb was given, so the practice formula's minimum is not computed beside the interface estimate"}]
-    if dispersed["density_g_per_ml"] is None:
-        raise invalid(("dispersed_phase", "density"), "density_needed", "the practice estimate needs the dispersed phase's density: give it")
+    for name, phase in (("dispersed_phase", dispersed), ("continuous_phase", continuous)):
+        if phase["density_g_per_ml"] is None:
+            raise invalid((name, "density"), "density_needed", f"the practice estimate needs the {name.replace('_', ' ')}'s density "
+                          "(its share by mass): give it")
     rho_s = _blend_density(members, fractions, data, registry, values_used)
     emulsion_g = dispersed["mass_g"] + continuous["mass_g"]
     q = continuous["mass_g"] / emulsion_g * 100.0
@@ -174,7 +176,8 @@ def estimate(data: dict, registry: Registry, strict: bool = False) -> dict:
     est = interface.interface_estimate(dispersed["volume_ml"], d32_um, core_members, continuous["volume_ml"])
     practice_out, practice_warnings = _practice(data, members, fractions, dispersed, continuous, registry, values_used)
     enforce_strict(values_used, strict)
-    emulsion_g = dispersed["mass_g"] + continuous["mass_g"] if dispersed["mass_g"] is not None else None
+    known = dispersed["mass_g"] is not None and continuous["mass_g"] is not None
+    emulsion_g = dispersed["mass_g"] + continuous["mass_g"] if known else None
     result = {
         "interface_estimate": {
             "sauter_diameter_um": d32_um, "sauter_diameter_from": d32_from, "dispersed_phase_volume_ml": dispersed["volume_ml"],

@@ -84,6 +84,15 @@ def test_a_distribution_and_a_blend_with_a_member_of_unknown_cmc(client):
     assert {"cmc_unknown", "caller_supplied_value"} <= codes
 
 
+def test_phases_of_unknown_density_by_volume_leave_the_per_100_g_figures_out(client):
+    r = client.post(URL, json=_body(continuous_phase={"inline": {"name": "a buffer"}, "amount": {"value": 80, "unit": "mL"}},
+                                    required_hlb=None))
+    assert r.status_code == 200
+    res = r.get_json()["result"]
+    assert res["emulsion_mass_g"] is None and res["interface_estimate"]["g_per_100g"] is None
+    assert res["interface_estimate"]["interfacial_area_m2"] == pytest.approx(60.0)
+
+
 def test_a_mass_with_its_density(client):
     # Hand-computed: 17 g of an inline oil at 0.85 g/mL is 20 mL: the same 60 m2 at 2 µm as 20 mL.
     r = client.post(URL, json=_body(dispersed_phase={"inline": {"name": "oil", "density": {"value": 0.85, "unit": "g/mL"}},
@@ -110,6 +119,10 @@ def test_a_mass_with_its_density(client):
     ({"surfactants": [{"ingredient": "polysorbate-80", "mole_fraction": 0.5}, {"ingredient": "polysorbate-20", "mole_fraction": 0.3}]},
      ("#/surfactants", "mole_fractions_add_up")),
     ({"required_hlb": 20}, ("#/required_hlb", "exclusive_maximum")),
+    ({"continuous_phase": {"inline": {"name": "a buffer"}, "amount": {"value": 80, "unit": "mL"}}},
+     ("#/continuous_phase/density", "density_needed")),
+    ({"dispersed_phase": {"inline": {"name": "an oil"}, "amount": {"value": 20, "unit": "mL"}}},
+     ("#/dispersed_phase/density", "density_needed")),
 ])
 def test_bad_input_is_a_422_naming_the_field_and_rule(client, changes, fault):
     r = client.post(URL, json=_body(**changes))
