@@ -31,7 +31,7 @@ def value_lines(registry: Registry, record: ValueRecord) -> list[str]:
         ("locator", record.locator), ("kind", record.kind), ("method", record.method), ("status", record.status),
         ("reviewed", " on ".join(filter(None, [record.reviewed_by, record.reviewed_on])) or None),
         ("temperature", f"{record.temperature_c:g} degC" if record.temperature_c is not None else None),
-        ("basis", record.basis if record.property == "melting_range" else None),
+        ("basis", record.basis if record.property in ("melting_range", "area_per_molecule") else None),
         ("conditions", record.conditions), ("why preferred", record.preferred_reason), ("why doubtful", record.doubtful_reason),
         ("note", record.note), ("retired", f"{record.retired_on}: {record.retired_reason}" if record.retired else None)])
 

@@ -1,7 +1,9 @@
 """Frozen records of the registry. Numbers are in canonical units: HLB and
 required HLB are dimensionless, densities are g/mL, molar masses g/mol,
 melting ranges degrees Celsius,
-acid values mg KOH per g; beyond-use dates are whole days."""
+acid values mg KOH per g, areas per molecule nm2, critical micelle
+concentrations mmol/L, cloud points degrees Celsius; beyond-use dates are
+whole days."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field
@@ -16,12 +18,16 @@ WATER_DENSITY_25C_G_PER_ML = 0.9970476
 PLAUSIBLE_DENSITY_G_PER_ML = (0.05, 25.0)
 
 PROPERTIES = ("hlb", "required_hlb_ow", "required_hlb_wo", "density", "molar_mass", "melting_range",
-              "acid_value")
+              "acid_value", "area_per_molecule", "cmc", "cloud_point")
 UNITS = {"density": "g/mL", "molar_mass": "g/mol", "melting_range": "degC",
-         "acid_value": "mg KOH/g"}
+         "acid_value": "mg KOH/g", "area_per_molecule": "nm2", "cmc": "mmol/L", "cloud_point": "degC"}
 # What a melting-range figure is (its `basis`): the pharmacopoeias state
 # waxes, fats and surfactants by one of these, each measured its own way.
 MELTING_BASES = ("melting_range", "congealing_range", "drop_point")
+# The interface an area per molecule was measured at (its `basis`): a
+# surfactant packs differently against air than against oil, so the two are
+# different values.
+AREA_BASES = ("oil_water", "air_water")
 # Where a component is dissolved or dispersed before the phases are combined.
 PHASES = ("oil", "water")
 # USP <795> beyond-use-date categories: water content and dosage form.

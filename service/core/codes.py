@@ -90,6 +90,9 @@ ANSWER_WARNINGS = {
     "alkali_in_excess": "The alkali given is more than the free acid takes: the excess stays unreacted and the preparation alkaline.",
     "soap_mass_needs_acid_molar_mass": "The material is not all free acid: the soap's mass needs the free acids' mean molar mass.",
     "alkali_assay_assumed": "A hydroxide was taken as 100 % pure; the pharmacopeial material is less: give its assay.",
+    "area_measured_at_air_water": "An area per molecule measured at the air-water interface is used for the oil-water one: the interface estimate is approximate.",
+    "cmc_unknown": "No CMC is known for a surfactant: the interface estimate leaves out what stays dissolved in the continuous phase.",
+    "practice_estimate_left_out": "No required HLB was given: the practice formula's minimum is not computed beside the interface estimate.",
     "gum_proportions_common_practice": "The primary-emulsion proportions are common practice, recalled, not read in a text.",
 }
 WARNINGS = {**FINDINGS, **PROVENANCE_WARNINGS, **ANSWER_WARNINGS,
@@ -158,6 +161,13 @@ REFUSALS = {
     "fraction_or_alkali_mass": "A soap made in place is given the fraction to neutralise or the mass of alkali, not both.",
     "known_oil_kind": "The kind of oil is one the primary-emulsion proportions cover (fixed, mineral, volatile).",
     "final_holds_primary_emulsion": "The final amount is more than the primary emulsion it is made from.",
+    # POST /v1/emulsifier/interface-estimate
+    "area_per_molecule_known": "An area per molecule is known for each surfactant (the registry's, or given with its interface).",
+    "molar_mass_known": "A molar mass is known for each surfactant (the registry's, or given).",
+    "density_needed_for_mass": "A phase given by mass needs its density to find its volume: give it, or give a volume.",
+    "mole_fractions_given": "Each member of a surfactant blend has its mole fraction.",
+    "mole_fractions_add_up": "The mole fractions of a surfactant blend are positive and add up to 1 (within 1e-6).",
+    "distribution_has_droplets": "A droplet-size distribution has at least one diameter with a count above zero.",
     # POST /v1/blends/solve
     "constraints_consistent": "A blend's bounds, fixed shares and ratios can hold together with its shares adding up to 100 %.",
     "target_reachable_under_constraints": "The target HLB lies within what the blend reaches under its constraints (the problem names the nearest reachable HLB and the constraints that bind there).",

@@ -19,7 +19,7 @@ POST_PATHS = {
     "candidatePairs": "/v1/candidate-pairs", "hlbEstimate": "/v1/hlb-estimates", "requiredHlbSeriesPlan": "/v1/required-hlb-series/plan",
     "requiredHlbSeriesEvaluate": "/v1/required-hlb-series/evaluate",
     "soapInPlace": "/v1/soaps/in-place", "gumEmulsion": "/v1/gum-emulsions",
-    "solveBlend": "/v1/blends/solve",
+    "solveBlend": "/v1/blends/solve", "emulsifierInterfaceEstimate": "/v1/emulsifier/interface-estimate",
 }
 # Operations whose example is also recorded as the Markdown worksheet.
 MARKDOWN = ("createWorksheet", "checkAmountsTaken", "createCompoundingRecord")

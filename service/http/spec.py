@@ -20,7 +20,7 @@ from service.http.schemas import calculation_requests as calculations, estimate_
 from service.http.schemas import soap_bodies as soap_schemas
 from service.http.schemas import amounts_taken_bodies as taken, record_bodies as records, responses as answers, worksheet_bodies as worksheets
 from service.http.schemas.fields import Boolean, Number, QueryNumber
-from service.http.schemas import blend_bodies
+from service.http.schemas import blend_bodies, interface_bodies
 from service.http.schemas.enums import publish as publish_enums
 from service.http.schemas.rules import RuleChecks, published
 from service.http.logs import REQUEST_ID_PATTERN
@@ -164,6 +164,13 @@ OPERATIONS = [
      "active. Constraints that cannot hold, or a target out of reach under them, are a 422 naming the nearest reachable HLB and the "
      "constraints that bind there, in words and by pointer.",
      blend_bodies.BlendSolveRequestSchema, None, blend_bodies.BlendSolveAnswerSchema, BODY_ERRORS, "calculations"),
+    ("/v1/emulsifier/interface-estimate", "post", "emulsifierInterfaceEstimate", "Emulsifier estimated from the interface",
+     "The emulsifier one saturated monolayer on the droplets takes (area 6·V/d32 over each surfactant's area per molecule, in moles "
+     "by the Avogadro constant, in grams by the molar mass), plus what stays dissolved in the continuous phase up to the CMC where it "
+     "is known; the droplet size as a Sauter mean d32 or a number distribution; a blend by mole fractions. With a required HLB, the "
+     "practice formula's minimum (as POST /v1/emulsifier/minimum) for the same emulsion is given beside it, each with its assumptions. "
+     "Areas per molecule, molar masses and CMCs come from the registry or the request.",
+     interface_bodies.InterfaceEstimateRequestSchema, None, interface_bodies.InterfaceEstimateAnswerSchema, BODY_ERRORS, "calculations"),
 ]
 
 # Every answer carries the request's id; a caller may choose it.

@@ -209,3 +209,32 @@ EXAMPLES["solveBlend"] = {
         },
     },
 }
+
+
+# A 100 g lotion of our own: 20 mL of light mineral oil in 80 mL of water,
+# droplets of 2 µm, polysorbate 80 alone; and the same oil by mass, sized by a
+# distribution, with a blend whose second member's figures are given.
+EXAMPLES["emulsifierInterfaceEstimate"] = {
+    "polysorbate_80": {
+        "summary": "Polysorbate 80 on 20 mL of light mineral oil at d32 = 2 µm, beside the practice minimum",
+        "value": {
+            "dispersed_phase": {"ingredient": "light-mineral-oil", "amount": {"value": 20, "unit": "mL"}},
+            "continuous_phase": {"ingredient": "purified-water", "amount": {"value": 80, "unit": "mL"}},
+            "droplets": {"d32_um": 2},
+            "surfactants": [{"ingredient": "polysorbate-80"}],
+            "required_hlb": 12,
+        },
+    },
+    "blend_and_distribution": {
+        "summary": "A two-member blend by mole fractions, the droplet sizes as a distribution",
+        "value": {
+            "dispersed_phase": {"ingredient": "light-mineral-oil", "amount": {"value": 17, "unit": "g"}},
+            "continuous_phase": {"ingredient": "purified-water", "amount": {"value": 80, "unit": "g"}},
+            "droplets": {"distribution": [{"diameter_um": 1, "count": 600}, {"diameter_um": 2, "count": 300},
+                                          {"diameter_um": 5, "count": 100}]},
+            "surfactants": [{"ingredient": "polysorbate-80", "mole_fraction": 0.6},
+                            {"ingredient": "sorbitan-monooleate", "mole_fraction": 0.4, "area_per_molecule": {"nm2": 0.5, "basis": "oil_water"},
+                             "molar_mass_g_per_mol": 428.6}],
+        },
+    },
+}

@@ -256,3 +256,28 @@ BLEND_SOLVE = Method(
         "A total given as a volume assumes the surfactants' volumes add on mixing.",
     ),
 )
+
+# The interface estimate's own assumptions; its answer states them beside the
+# practice formula's (MINIMUM_EMULSIFIER.assumptions), each set under its estimate.
+INTERFACE_ASSUMPTIONS = (
+    "One saturated monolayer of emulsifier covers every droplet; nothing is adsorbed beyond it.",
+    "Every droplet has the Sauter mean diameter d32 = Σn·d³ / Σn·d²: the size with the distribution's own ratio of volume to "
+    "surface, so the area 6·V/d32 is the distribution's true interfacial area.",
+    "The area per molecule is that of a saturated film measured at the interface its basis names; a figure measured against air "
+    "is used for the oil-water interface only as an approximation (a molecule usually takes a different area against oil).",
+    "A blend's monolayer is ideal: its mean area per molecule is the mole-fraction mean of its members' areas, and its "
+    "composition is the blend's.",
+    "Only what dissolves in the continuous phase up to the CMC is added: no excess micelles beyond it. A blend's CMC is the "
+    "ideal mixed-micelle value, 1/CMC = Σ xᵢ/CMCᵢ (Clint), with the dissolved monomers in the blend's proportions.",
+    "Nothing is lost to the dispersed phase (an oil-soluble surfactant partly dissolves in the oil) or to other surfaces.",
+    "Molar masses of commercial surfactants are nominal (an idealised formula): the products are mixtures.",
+    "The result is a physical lower bound: practice uses several times more, to form the droplets while they are being made "
+    "and to give the film strength.",
+)
+INTERFACE_EMULSIFIER = Method(
+    name="Emulsifier from the interface it covers, beside the practice formula's minimum",
+    formula="A = 6·V_d/d32 (V_d m3, d32 m); N = A/a (a m2 per molecule); n = N/N_A, N_A = 6.02214076e23 /mol (exact, SI 2019); "
+    "m_adsorbed = n·M; m_dissolved = CMC·V_c·M; practice: Qs = 6·(ρs/ρd) / (10 − 0.5·RHLB) + 4·Q/1000 g per 100 g",
+    source_ids=("mcclements-food-emulsions", "codata-2018", "practice-minimum-emulsifier"),
+    assumptions=INTERFACE_ASSUMPTIONS,
+)

@@ -74,7 +74,7 @@ BROKEN = [
     ("ingredients/olive-oil.toml", "value = 7.0", "value = 7.0\nlow = 6.0\nhigh = 8.0", "values/required_hlb_ow/0", "not both"),
     ("ingredients/olive-oil.toml", 'id = "olive-oil"', 'id = "olive-oil', "(file)", "not valid TOML"),
     ("sources.toml", 'kind = "textbook"', 'kind = "rumour"', "sources/martin/kind", "is not one of"),
-    ("registry.toml", 'release = "0.6.0"', 'release = "first"', "release", "does not match"),
+    ("registry.toml", 'release = "0.7.0"', 'release = "first"', "release", "does not match"),
 ]
 
 

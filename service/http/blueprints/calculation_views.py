@@ -9,6 +9,8 @@ from service.http.schemas import responses as out
 from service.http.schemas import calculation_requests as req
 from service.http.schemas import blend_bodies
 from service.usecases import constrained_blend
+from service.http.schemas import interface_bodies
+from service.usecases import interface_estimate
 
 bp = Blueprint("calculations", __name__, url_prefix="/v1")
 
@@ -50,6 +52,15 @@ def oil_phase_required_hlb():
 @bp.post("/emulsifier/minimum")
 def emulsifier_minimum():
     return answer(MINEM_OUT, hlb_calculations.emulsifier_minimum(load_body(MINEM_IN), _registry()))
+
+
+IFACE_IN, IFACE_OUT = interface_bodies.InterfaceEstimateRequestSchema(), interface_bodies.InterfaceEstimateAnswerSchema()
+
+
+@bp.post("/emulsifier/interface-estimate")
+def emulsifier_interface_estimate():
+    data = load_body(IFACE_IN)
+    return answer(IFACE_OUT, interface_estimate.estimate(data, _registry(), _strict(data)))
 
 
 BLEND_SOLVE_IN, BLEND_SOLVE_OUT = blend_bodies.BlendSolveRequestSchema(), blend_bodies.BlendSolveAnswerSchema()

@@ -34,7 +34,7 @@ class ValueRecordSchema(Schema):
     figure = fields.Float(required=True, metadata={"description": "The figure a calculation uses: the value, or the midpoint of a range."})
     low = fields.Float(required=True)
     high = fields.Float(required=True)
-    unit = fields.String(required=True, allow_none=True, metadata={"description": "g/mL for densities, g/mol for molar masses, degC for melting ranges; null for HLB values."})
+    unit = fields.String(required=True, allow_none=True, metadata={"description": "g/mL for densities, g/mol for molar masses, degC for melting ranges and cloud points, mg KOH/g for acid values, nm2 for areas per molecule, mmol/L for critical micelle concentrations; null for HLB values."})
     recorded = fields.Dict(keys=fields.String(), values=fields.Float(), required=True, metadata={"description": "The value as written in the data file (a specific gravity stays a specific gravity)."})
     recorded_unit = fields.String(required=True, allow_none=True, metadata={"description": "The unit it was written in, where it has one."})
     basis = fields.String(required=True, allow_none=True)
@@ -70,6 +70,12 @@ class IngredientValuesSchema(Schema):
         "description": "Melting, congealing or drop-point ranges, degC (`basis` says which)."})
     acid_value = fields.List(fields.Nested(ValueRecordSchema), required=True, metadata={
         "description": "Acid values, mg KOH per g: the free acids a soap made in place can form from."})
+    area_per_molecule = fields.List(fields.Nested(ValueRecordSchema), required=True, metadata={
+        "description": "Areas per molecule in a saturated monolayer, nm2 (`basis`: the interface measured, oil_water or air_water)."})
+    cmc = fields.List(fields.Nested(ValueRecordSchema), required=True, metadata={
+        "description": "Critical micelle concentrations in water, mmol/L (`temperature_c` where the source states it)."})
+    cloud_point = fields.List(fields.Nested(ValueRecordSchema), required=True, metadata={
+        "description": "Cloud points of ethoxylated surfactants, degC (1 % in water unless `conditions` says otherwise)."})
 
 
 class IngredientSummarySchema(Schema):
