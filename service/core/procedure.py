@@ -134,7 +134,7 @@ def heating(rows: list[ProcedureRow]) -> Heating:
 def heating_note(h: Heating) -> str:
     """What set the temperature, in words, with each melting range's basis."""
     if not h.heated:
-        return "no component of the phases needs melting: a cold process"
+        return "no component of the phases needs melting: they may be combined at room temperature"
     if h.highest:
         note = (f"the highest-melting component of the phases is {h.highest.label}, melting range up to {h.highest.melting_top_c:g} °C "
                 f"({h.highest.melting_basis}); heated to {ABOVE_MELTING_C:g} °C above it, and at least the usual {USUAL_HEATING_C:g} °C")
