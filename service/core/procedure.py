@@ -116,10 +116,14 @@ def rounded_heating_c(melting_tops_c: list[float]) -> float:
 
 def heating(rows: list[ProcedureRow]) -> Heating:
     """The temperature the phases are heated to, from the rows that go into
-    the oil or the aqueous phase and need melting (solids and semisolids):
+    the oil phase and need melting (solids and semisolids):
     the usual floor, raised by the melting ranges used. Nothing to melt: a
     cold process (temperature None)."""
-    hot = [r for r in rows if _vessel(r) in ("oil", "aqueous") and _needs_melting(r)]
+    # The oil phase is melted; solids of the aqueous phase (a water-soluble
+    # surfactant, a preservative) are dissolved in the water, never melted
+    # (FIELDS.md, "Melting ranges"): sodium lauryl sulfate, melting near
+    # 200 degC, would otherwise set the temperature.
+    hot = [r for r in rows if _vessel(r) == "oil" and _needs_melting(r)]
     used = [r for r in hot if r.melting_top_c is not None]
     unknown = [r for r in hot if r.melting_top_c is None and r.melting_left_out_top_c is None]
     left_out = [r for r in hot if r.melting_top_c is None and r.melting_left_out_top_c is not None]
@@ -134,9 +138,9 @@ def heating(rows: list[ProcedureRow]) -> Heating:
 def heating_note(h: Heating) -> str:
     """What set the temperature, in words, with each melting range's basis."""
     if not h.heated:
-        return "no component of the phases needs melting: they may be combined at room temperature"
+        return "no component of the oil phase needs melting: the phases may be combined at room temperature"
     if h.highest:
-        note = (f"the highest-melting component of the phases is {h.highest.label}, melting range up to {h.highest.melting_top_c:g} °C "
+        note = (f"the highest-melting component of the oil phase is {h.highest.label}, melting range up to {h.highest.melting_top_c:g} °C "
                 f"({h.highest.melting_basis}); heated to {ABOVE_MELTING_C:g} °C above it, and at least the usual {USUAL_HEATING_C:g} °C")
     else:
         note = f"no melting range is used for the solids; the usual {USUAL_HEATING_C:g} °C is used"

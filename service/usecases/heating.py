@@ -63,8 +63,9 @@ def processing_row(row: dict, entry: dict, registry: Registry, hlb_by_row: dict,
     elif entry.get("heat_sensitive") or (processing is not None and processing.heat_sensitive):
         late = "heat-sensitive"
     water = bool(record and "aqueous_vehicle" in record.functions)
-    return ProcedureRow(row["name"], row["phase"], row["role"], row["physical_state"], row["mass_g"], dissolves_in, basis,
-                        top, melting_basis, late, water, left_out_top, left_out_basis)
+    return ProcedureRow(row["name"], row["phase"], row["role"], row["physical_state"], row["mass_g"], dissolves_in=dissolves_in,
+                        dissolves_in_basis=basis, melting_top_c=top, melting_basis=melting_basis, melting_left_out_top_c=left_out_top,
+                        melting_left_out_basis=left_out_basis, late=late, is_water=water)
 
 
 def hlb_by_row(values_used: ValuesUsed) -> dict:

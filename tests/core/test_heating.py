@@ -81,3 +81,12 @@ def test_a_cloud_point_below_the_processing_temperature_is_flagged(cloud_c, proc
 def test_an_unverified_cloud_point_is_flagged_and_said_unverified():
     (f,) = below_processing([CloudPoint("Surfactant B", 60.0, "src, unverified", True)], 70.0)
     assert "the cloud point is unverified" in f.message
+
+
+def test_a_solid_of_the_aqueous_phase_is_dissolved_not_melted():
+    # Sodium lauryl sulfate melts near 205 degC (registry, hpe-6) but dissolves in the water: only the oil phase
+    # is melted (registry/FIELDS.md, "Melting ranges"; common practice, no source).
+    sls = ProcedureRow("Sodium lauryl sulfate", "emulsifier", "emulsifier", "solid", 10.0, dissolves_in="water",
+                       dissolves_in_basis="b", melting_top_c=207.0, melting_basis="src")
+    h = heating([_solid("Stearyl alcohol", 60.0), sls, _solid("Methylparaben", 131.0, phase="aqueous"), WATER])
+    assert (h.temperature_c, h.set_by, [r.label for r in h.used]) == (70.0, "usual_floor", ["Stearyl alcohol"])
