@@ -91,9 +91,11 @@ def cloud_points(rows: list[dict], registry: Registry, values_used: ValuesUsed, 
             values_used.add(used, key=lambda v: (v.ingredient, v.property))
         memory = ", recalled from memory" if value.recalled_from_memory else ""
         conditions = f"{value.conditions}; " if value.conditions else ""
-        basis = f"{conditions}{_basis(registry, value)}{memory}"
-        # The lowest figure of the current sources: the surfactant clouds at
-        # the first of them whichever is right.
+        # The preferred figure; where another current source gives a lower
+        # one, that is the figure compared (the surfactant clouds at the
+        # first of them whichever is right), and the basis says so.
+        other = f"; its figure {value.figure:g} °C, another source's lower" if low < value.figure else ""
+        basis = f"{conditions}{_basis(registry, value)}{memory}{other}"
         out.append(CloudPoint(row["name"], low, basis, used.unverified_registry_value))
     return out
 
