@@ -140,8 +140,10 @@ def heating_note(h: Heating) -> str:
     if not h.heated:
         return "no component of the oil phase needs melting: the phases may be combined at room temperature"
     if h.highest:
+        why = (f"{ABOVE_MELTING_C:g} °C above it, rounded up to a whole 5 °C" if h.set_by == "melting_range" else
+               f"{ABOVE_MELTING_C:g} °C above it is not above the usual {USUAL_HEATING_C:g} °C, which is used")
         note = (f"the highest-melting component of the oil phase is {h.highest.label}, melting range up to {h.highest.melting_top_c:g} °C "
-                f"({h.highest.melting_basis}); heated to {ABOVE_MELTING_C:g} °C above it, and at least the usual {USUAL_HEATING_C:g} °C")
+                f"({h.highest.melting_basis}); {why}")
     else:
         note = f"no melting range is used for the solids; the usual {USUAL_HEATING_C:g} °C is used"
     if h.unknown:
