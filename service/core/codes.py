@@ -82,6 +82,8 @@ ANSWER_WARNINGS = {
     "unverified_bud_category": "The beyond-use category used is not yet checked against the chapter it cites.",
     "procedure_phase_unknown": "The registry holds no phase for a component: the procedure leaves where it goes to the pharmacist.",
     "melting_range_unknown": "A solid or semisolid has no melting range on record: heat until melted, by the material's specification.",
+    "melting_range_unverified_not_used": "Strict mode: a solid's melting range on record is unverified and does not set the processing temperature: heat until melted, by the material's specification.",
+    "cloud_point_below_processing": "An ethoxylated surfactant's cloud point on record lies below the processing temperature: heated above it, it turns less water-soluble.",
     "high_process_temperature": "The oil phase must be heated near the aqueous phase's boiling point.",
     "water_activity_at_threshold": "A measured water activity is exactly the aqueous threshold, where readings of the chapter differ.",
     "taken_converted_with_density": "An amount taken was given as a volume for a weighed row, or as a mass for a measured one, and converted with the row's density.",

@@ -43,6 +43,10 @@ class ProcedureRow:
     dissolves_in_basis: str | None = None
     melting_top_c: float | None = None
     melting_basis: str | None = None
+    # A melting range on record but left out (strict mode: unverified); its
+    # top and basis, so the procedure can say what was not used.
+    melting_left_out_top_c: float | None = None
+    melting_left_out_basis: str | None = None
     late: str | None = None         # "volatile" | "heat-sensitive": added on cooling
     is_water: bool = False
 
@@ -81,11 +85,86 @@ def _needs_melting(row: ProcedureRow) -> bool:
     return row.physical_state in ("solid", "semisolid")
 
 
-def heating_temperature_c(melting_tops_c: list[float]) -> float:
-    """The oil phase's temperature: the usual 70 degC, or 5 degC above the
-    highest melting range's top, rounded up to a whole 5 degC."""
+# What can set the processing temperature, with its meaning.
+SET_BY = {
+    "melting_range": "5 degC above the highest melting range's top, rounded up to a whole 5 degC (common practice, no source).",
+    "usual_floor": "The usual 70 degC: nothing melts above 65 degC (common practice, no source).",
+    "cold_process": "Nothing needs melting: the phases may be combined at room temperature.",
+}
+
+
+@dataclass(frozen=True)
+class Heating:
+    """The one heating rule's answer: the temperature both phases go to
+    (None for a cold process) and what set it."""
+
+    temperature_c: float | None
+    heated: bool
+    set_by: str                                 # melting_range | usual_floor | cold_process
+    highest: ProcedureRow | None                # the highest-melting row whose range was used
+    used: list[ProcedureRow]                    # the rows melted, each with its melting range used
+    unknown: list[ProcedureRow]                 # solids with no melting range on record
+    left_out: list[ProcedureRow]                # solids whose range was left out (strict mode: unverified)
+
+
+def rounded_heating_c(melting_tops_c: list[float]) -> float:
+    """The usual 70 degC, or 5 degC above the highest melting range's top,
+    rounded up to a whole 5 degC."""
     wanted = max([USUAL_HEATING_C] + [t + ABOVE_MELTING_C for t in melting_tops_c])
     return 5.0 * math.ceil(wanted / 5.0 - 1e-9)
+
+
+def heating(rows: list[ProcedureRow]) -> Heating:
+    """The temperature the phases are heated to, from the rows that go into
+    the oil phase and need melting (solids and semisolids):
+    the usual floor, raised by the melting ranges used. Nothing to melt: a
+    cold process (temperature None)."""
+    # The oil phase is melted; solids of the aqueous phase (a water-soluble
+    # surfactant, a preservative) are dissolved in the water, never melted
+    # (FIELDS.md, "Melting ranges"): sodium lauryl sulfate, melting near
+    # 200 degC, would otherwise set the temperature.
+    hot = [r for r in rows if _vessel(r) == "oil" and _needs_melting(r)]
+    used = [r for r in hot if r.melting_top_c is not None]
+    unknown = [r for r in hot if r.melting_top_c is None and r.melting_left_out_top_c is None]
+    left_out = [r for r in hot if r.melting_top_c is None and r.melting_left_out_top_c is not None]
+    if not hot:
+        return Heating(None, False, "cold_process", None, [], [], [])
+    highest = max(used, key=lambda r: r.melting_top_c) if used else None
+    temperature = rounded_heating_c([r.melting_top_c for r in used])
+    set_by = "melting_range" if highest and highest.melting_top_c + ABOVE_MELTING_C > USUAL_HEATING_C else "usual_floor"
+    return Heating(temperature, True, set_by, highest, used, unknown, left_out)
+
+
+def heating_note(h: Heating) -> str:
+    """What set the temperature, in words, with each melting range's basis."""
+    if not h.heated:
+        return "no component of the oil phase needs melting: the phases may be combined at room temperature"
+    if h.highest:
+        why = (f"{ABOVE_MELTING_C:g} °C above it, rounded up to a whole 5 °C" if h.set_by == "melting_range" else
+               f"{ABOVE_MELTING_C:g} °C above it is not above the usual {USUAL_HEATING_C:g} °C, which is used")
+        note = (f"the highest-melting component of the oil phase is {h.highest.label}, melting range up to {h.highest.melting_top_c:g} °C "
+                f"({h.highest.melting_basis}); {why}")
+    else:
+        note = f"no melting range is used for the solids; the usual {USUAL_HEATING_C:g} °C is used"
+    if h.unknown:
+        note += f"; no melting range is on record for {', '.join(r.label for r in h.unknown)}: heat until melted"
+    if h.left_out:
+        note += (f"; the melting range on record for {', '.join(r.label for r in h.left_out)} is unverified and left out (strict mode): "
+                 "heat until melted")
+    return note
+
+
+def left_out_findings(h: Heating) -> list[Finding]:
+    """Strict mode left an unverified melting range out: said, with the
+    temperature it would have set, never dropped silently."""
+    out = []
+    for r in h.left_out:
+        would = rounded_heating_c([r.melting_left_out_top_c])
+        out.append(Finding("melting_range_unverified_not_used", subject=r.label,
+                           message=f"the melting range on record for {r.label}, up to {r.melting_left_out_top_c:g} °C "
+                                   f"({r.melting_left_out_basis}), is unverified and strict mode does not use it: alone it would set "
+                                   f"{would:g} °C; heat until every solid has melted, and set the temperature by the material's specification"))
+    return out
 
 
 def _names(rows: list[ProcedureRow]) -> str:
@@ -101,12 +180,8 @@ def procedure(emulsion_type: str, rows: list[ProcedureRow], batch_g: float) -> P
 
     steps.append(("weigh", "Weigh or measure every component as the worksheet lists it, and have each checked against the worksheet.", COMMON_PRACTICE, practice))
 
-    hot = [r for r in oil + aqueous if _needs_melting(r)]
-    unknown = [r for r in hot if r.melting_top_c is None]
-    known = [r for r in hot if r.melting_top_c is not None]
-    heated = bool(hot)
-    highest = max(known, key=lambda r: r.melting_top_c) if known else None
-    oil_c = heating_temperature_c([r.melting_top_c for r in known]) if heated else None
+    heat = heating(rows)
+    heated, highest, oil_c = heat.heated, heat.highest, heat.temperature_c
 
     def placed(vessel: list[ProcedureRow]) -> tuple[str, str]:
         """A vessel's basis: where its surfactants' placing comes from."""
@@ -130,14 +205,13 @@ def procedure(emulsion_type: str, rows: list[ProcedureRow], batch_g: float) -> P
         findings.append(Finding("procedure_phase_unknown", subject="other", message=f"no phase is known for {', '.join(r.label for r in other)}: the procedure leaves it to the pharmacist"))
 
     if heated:
-        melt_note = (f"the highest-melting component of the phases is {highest.label}, melting range up to {highest.melting_top_c:g} °C "
-                     f"({highest.melting_basis}); heated to {ABOVE_MELTING_C:g} °C above it, and at least the usual {USUAL_HEATING_C:g} °C"
-                     if highest else f"no melting range is on record for the solids; the usual {USUAL_HEATING_C:g} °C is used")
-        if unknown:
-            findings.append(Finding("melting_range_unknown", subject=", ".join(r.label for r in unknown),
-                                    message=f"no melting range is on record for {', '.join(r.label for r in unknown)}: heat until every solid has "
+        melt_note = heating_note(heat)
+        if heat.unknown:
+            names = ", ".join(r.label for r in heat.unknown)
+            findings.append(Finding("melting_range_unknown", subject=names,
+                                    message=f"no melting range is on record for {names}: heat until every solid has "
                                     "melted, and set the temperature by the material's specification"))
-            melt_note += f"; no melting range is on record for {', '.join(r.label for r in unknown)}: heat until melted"
+        findings += left_out_findings(heat)
         steps.append(("heat", f"Heat the oil phase on a water bath to about {oil_c:g} °C, stirring until every solid has melted; heat the "
                       f"aqueous phase to the same temperature (a few degrees above is usual, so that nothing congeals when the phases meet). "
                       "Hot oils and waxes cause burns.", COMMON_PRACTICE, f"{melt_note}; common practice, no source: for the pharmacist to confirm"))

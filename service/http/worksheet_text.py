@@ -83,6 +83,10 @@ def worksheet_text(answer: dict, markdown: bool) -> str:
               f"- Surfactants: {', '.join(map(e, em['surfactants']))}" + (" (proposed by the service)" if em["proposed"] else ""),
               f"- Blend HLB reached {em['hlb_reached']:.1f}" + (f" for a target of {em['target_hlb']:.1f}" if em["target_hlb"] is not None else ""),
               f"- Emulsifier total {em['total_percent_w_w']:.2f} % w/w ({e(em['basis'])})", ""]
+    heat = r["processing_temperature"]
+    lines += [f"{h2}Processing temperature", "",
+              (f"- Heat both phases to about {heat['temperature_c']:g} °C" if heat["heated"] else "- Cold process")
+              + f": {e(heat['note'])}", ""]
     mass_unit = r["rows"][0]["mass"]["unit"]
     readability = r["equipment"]["balance"]["readability_g"]
     lines += [f"{h2}Quantities", ""]

@@ -8,17 +8,17 @@ from __future__ import annotations
 import copy
 
 from registry import Registry
-from registry.model import UNITS
 from service.core.errors import UnverifiedValuesRefused
-from service.core.procedure import ProcedureRow, procedure
+from service.core.procedure import procedure
 from service.usecases import methods, worksheet as worksheet_case
 from service.usecases.amounts_taken import check_amounts_taken, taken_warnings
 from service.usecases.answers import envelope, finding_warnings, tidy
 from service.usecases.beyond_use import beyond_use_block, component_expiry, parse_day
 from service.units import to_canonical
-from service.usecases.provenance import ValueUsed, ValuesUsed, figures_differ, source_block
+from service.usecases.heating import HEATING_CODES, cloud_point_warnings, hlb_by_row, processing_row
+from service.usecases.provenance import ValuesUsed, source_block
 from service.usecases.record_parts import label, quality_checks, required_elements
-from service.usecases.resolution import Faults, enforce_strict, invalid, spans
+from service.usecases.resolution import Faults, enforce_strict, invalid
 
 ORAL_FORMS = ("emulsion",)
 
@@ -46,51 +46,6 @@ def _match_components(data: dict, rows: list[dict], faults: Faults) -> dict[int,
         else:
             matched[i] = (j, c)
     return matched
-
-
-def _processing(row: dict, entry: dict, registry: Registry, hlb_by_row: dict, values_used: ValuesUsed, path: tuple) -> ProcedureRow:
-    """What the procedure needs of a row: where it goes, what melts it, and
-    whether it goes in late; each from the registry, with its source."""
-    record = registry.get(row["ingredient"]) if row["ingredient"] else None
-    melting = record.preferred("melting_range") if record else None
-    top, melting_basis = None, None
-    if melting is not None:
-        # The top of every current source's range: enough heat to melt the
-        # material whichever source is right.
-        low, high = spans(record, "melting_range")[0]
-        top = high
-        source = registry.sources[melting.source_id]
-        melting_basis = f"{source.id}{', ' + melting.locator if melting.locator else ''}, {melting.status}"
-        values_used.add(ValueUsed.from_registry(ingredient=record.id, name=record.name, path=path, record=melting, registry=registry,
-                                                low=low, high=high, unit=UNITS["melting_range"], local=melting.local,
-                                                sources_disagree=figures_differ(record.comparable("melting_range"))),
-                        key=lambda v: (v.ingredient, v.property))
-    processing = record.processing if record else None
-    dissolves_in, basis = None, None
-    if row["phase"] == "emulsifier":
-        if processing is not None and processing.dissolves_in:
-            dissolves_in = processing.dissolves_in
-            basis = f"{processing.source_id}{', ' + processing.locator if processing.locator else ''}, {processing.status}"
-        elif hlb_by_row.get(row["ingredient"] or row["name"]) is not None:
-            hlb = hlb_by_row[row["ingredient"] or row["name"]]
-            table = registry.water_dispersibility
-            band = table.band_for(hlb)
-            if band is not None:
-                dissolves_in = band.dissolves_in
-                basis = f"HLB {hlb:.1f}: {band.description} ({table.source_id}, {table.status})"
-    late = None
-    if entry.get("volatile") or (processing is not None and processing.volatile):
-        late = "volatile"
-    elif entry.get("heat_sensitive") or (processing is not None and processing.heat_sensitive):
-        late = "heat-sensitive"
-    water = bool(record and "aqueous_vehicle" in record.functions)
-    return ProcedureRow(row["name"], row["phase"], row["role"], row["physical_state"], row["mass_g"], dissolves_in, basis,
-                        top, melting_basis, late, water)
-
-
-def _hlb_by_row(values_used: ValuesUsed) -> dict:
-    """The HLB each surfactant was used at in the worksheet, by id or name."""
-    return {v.ingredient or v.name: v.figure for v in values_used if v.property == "hlb"}
 
 
 def _component_out(i: int, row: dict, entry: dict) -> dict:
@@ -130,8 +85,11 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
     tolerance = data.get("final_weight_tolerance_percent")
     taken = check_amounts_taken(result, data["taken"], final_g, tolerance) if data.get("taken") else None
 
-    values_used = sheet.values_used
-    hlbs = _hlb_by_row(values_used)
+    # The record's procedure sets its own temperature (its components may go
+    # in late): the worksheet's heating values and warnings give way to its.
+    values_used = ValuesUsed()
+    values_used.extend(v for v in sheet.values_used if v.property not in ("melting_range", "cloud_point"))
+    hlbs = hlb_by_row(values_used)
     components, proc_rows = [], []
     for i, row in enumerate(rows):
         j, entry = matched.get(i, (None, {}))
@@ -140,7 +98,7 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
         out["label"] = row["name"]
         out["expiry_parsed"] = component_expiry(entry, row["name"], path) if j is not None else None
         components.append(out)
-        proc_rows.append(_processing(row, entry, registry, hlbs, values_used, ("worksheet", "result", "rows", i)))
+        proc_rows.append(processing_row(row, entry, registry, hlbs, values_used, ("worksheet", "result", "rows", i), strict))
 
     for_bud = [{"label": c["label"], "preservative": c["preservative"], "expiry": c["expiry_parsed"]} for c in components]
     bud = beyond_use_block(prep, compounded_on, for_bud, rows, registry)
@@ -188,7 +146,8 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
     # Complete for compounding: all the request can give is given; the quality
     # results are written at the bench.
     out["complete"] = not out["required_elements"]["to_fill_before_compounding"] and all(k["ok"] for k in record_checks)
-    warnings = list(sheet.warnings) + finding_warnings(proc.findings) + (taken_warnings(taken) if taken else [])
+    warnings = [w for w in sheet.warnings if w["code"] not in HEATING_CODES] + finding_warnings(proc.findings)
+    warnings += cloud_point_warnings(rows, proc.oil_phase_c, registry, values_used, strict, ("worksheet", "result", "rows")) + (taken_warnings(taken) if taken else [])
     warnings += [{"code": f"check_{k['code']}", "subject": None, "message": k["message"]} for k in record_checks if not k["ok"]]
     category = bud["category"]
     if prep.get("water_activity") == table.aw_threshold:

@@ -75,10 +75,15 @@ CANDIDATES = Method(
         "Hydrocolloids (apparent HLB only) and anionic-with-cationic pairs are never proposed.",
     ),
 )
+# The one heating rule (service.core.procedure.heating), as both methods state it.
+HEATING_FORMULA = "processing temperature = max(70 °C, top of the oil phase's highest melting range + 5 °C), rounded up to 5 °C"
+HEATING_ASSUMPTION = ("The 70 °C floor and the 5 °C above the highest melting range are common practice, no source; only the oil phase is "
+                      "melted (a solid of the aqueous phase is dissolved), and with nothing to melt the process is cold. An ethoxylated "
+                      "surfactant whose cloud point on record lies below the processing temperature is warned about.")
 WORKSHEET = Method(
     name="Batch worksheet: required HLB, emulsifier proportions, batch quantities and measurability",
     formula="RHLB = Σ wᵢ·RHLBᵢ / Σ wᵢ over the oil phase; pair split x_H = (T − HLB_L)/(HLB_H − HLB_L); mass = % w/w × batch / 100, "
-    "rounded to the balance; q.s. = batch − Σ others; MWQ = sensitivity × 100 / acceptable % error",
+    "rounded to the balance; q.s. = batch − Σ others; MWQ = sensitivity × 100 / acceptable % error; " + HEATING_FORMULA,
     source_ids=("griffin-1949", "pasquali-2008", "usp-1176", "graduate-practice"),
     assumptions=(
         ADDITIVITY,
@@ -86,6 +91,7 @@ WORKSHEET = Method(
         "A batch given as a volume is turned into a mass assuming the components' volumes add.",
         "Oily and viscous liquids, solids and the q.s. vehicle are weighed; other liquids are measured in a graduate where the volume "
         "suits one.",
+        HEATING_ASSUMPTION,
     ),
 )
 WORKSHEET_WITH_ESTIMATE = Method(
@@ -107,13 +113,13 @@ COMPOUNDING_RECORD = Method(
     name="Compounding record: the worksheet, the beyond-use date by USP <795>'s default categories, the procedure, the label "
     "and the quality checks",
     formula="BUD = min(compounding date + the category's days, the earliest component expiry); category by water (aqueous when the "
-    "formula holds water or the measured water activity is at least the threshold), preservative and oral liquid; oil phase heated to "
-    "max(70 °C, top of the highest melting range + 5 °C), rounded up to 5 °C",
+    "formula holds water or the measured water activity is at least the threshold), preservative and oral liquid; " + HEATING_FORMULA,
     source_ids=("usp-795-2023", "griffin-1949", "pasquali-2008", "usp-1176", "graduate-practice"),
     assumptions=(
         "The beyond-use categories are the chapter's defaults where no USP-NF compounded preparation monograph or stability study of "
         "the preparation applies; each category is shown with its source, locator and status.",
         "An expiry written as a month and a year is read as the last day of that month.",
+        HEATING_ASSUMPTION,
         "A surfactant goes into the phase it dissolves or disperses in: the registry's record where it has one, else Griffin's bands of "
         "behaviour in water for its HLB.",
         "The procedure's steps are the usual practice of the trade, for the pharmacist to confirm; the formula's own reference comes first.",

@@ -19,6 +19,7 @@ from service.usecases.provenance import ValuesUsed
 from service.usecases.resolution import Faults, check_references, density_value, enforce_strict, hlb_ranges, invalid, resolve
 from service.core.phases import DISPERSED
 from service.usecases.emulsifier_system import Formula, emulsifier_rows
+from service.usecases.heating import worksheet_heating
 from service.units import from_canonical, to_canonical
 
 # A blend of fixed surfactants within this of the required HLB is taken to
@@ -290,6 +291,8 @@ def worksheet_parts(data: dict, registry: Registry, strict: bool = False, rescal
         warnings.append({"code": "rounding_residue_to_largest_share", "subject": c.rows[qs_i].item.ingredient_id or c.rows[qs_i].item.label,
                          "message": f"no q.s. vehicle: the rounding residue of the other rows, {residue_g:+.6g} g, is taken up by "
                                     f"{c.rows[qs_i].item.label}, the largest share, so that the masses add up to the batch"})
+    processing, heating_warnings = worksheet_heating({"rows": out_rows}, registry, c.values_used, strict)
+    warnings += heating_warnings
     failed = sum(not k["ok"] for k in checks) + sum(not k["ok"] for row in out_rows for k in row["checks"])
     emulsifier = {k: v for k, v in c.emulsifier.items() if not k.startswith("_")}
     result = {
@@ -302,6 +305,7 @@ def worksheet_parts(data: dict, registry: Registry, strict: bool = False, rescal
                       "percent_w_w": sum(r.percent for r in c.rows if r.phase == "oil")},
         "dispersed_phase": {"fraction": fraction, "basis": basis},
         "emulsifier": emulsifier, "rows": out_rows,
+        "processing_temperature_c": processing["temperature_c"], "processing_temperature": processing,
         "totals": {"percent_w_w": total_mass / c.batch_mass_g * 100.0, "mass_g": total_mass, "batch_mass_g": c.batch_mass_g},
         "equipment": equipment_out(balance, graduates, defaults),
         "checks": checks, "rescaled_from": rescaled_from,

@@ -47,7 +47,7 @@ def test_markdown_names_add_no_block_or_markup(client):
     assert "[link](" not in text and "`code`" not in text and "*bold*" not in text
     # The template's own headings are all there is.
     assert [line for line in lines if line.startswith("#")] == [
-        lines[0], "## Emulsifier system", "## Quantities", "## Checks", "## Equipment", "## Warnings", "## Values used", "## Method", "## Cautions"]
+        lines[0], "## Emulsifier system", "## Processing temperature", "## Quantities", "## Checks", "## Equipment", "## Warnings", "## Values used", "## Method", "## Cautions"]
 
 
 def test_plain_text_names_are_one_cell_of_one_line(client):

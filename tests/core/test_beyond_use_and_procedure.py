@@ -16,7 +16,7 @@ import pytest
 
 from service.core.beyond_use import Expiry, beyond_use_date, parse_expiry
 from service.core.errors import CalculationError
-from service.core.procedure import ProcedureRow, heating_temperature_c, procedure
+from service.core.procedure import ProcedureRow, heating, rounded_heating_c, procedure
 
 D = dt.date(2026, 12, 2)
 
@@ -77,7 +77,7 @@ def test_impossible_expiry_dates_are_refused(text):
     ([86.0], 95.0),      # carnauba wax (about 86): 91 rounded up
 ])
 def test_heating_temperature(tops, expected):
-    assert heating_temperature_c(tops) == expected
+    assert rounded_heating_c(tops) == expected
 
 
 def _row(label, phase, role="ingredient", state="liquid", **kw):

@@ -13,6 +13,7 @@ from marshmallow import fields, validate
 
 from registry.model import FUNCTIONS, KINDS, PROPERTIES, STATUSES
 from service.core import codes
+from service.core.procedure import SET_BY
 from service.units import DENSITY_UNITS, MASS_UNITS, RELATIVE_UNITS, VOLUME_UNITS
 from service.usecases.provenance import ORIGINS
 
@@ -89,6 +90,7 @@ ENUMS = {
     "RuleCode": Enum(tuple(SCHEMA_RULES) + tuple(codes.REFUSALS),
                      "The rule a problem item names: a rule of the request's schema, or a refusal of the calculation.", None,
                      {**SCHEMA_RULES, **codes.REFUSALS}),
+    "HeatingSetBy": Enum(tuple(SET_BY), "What set the processing temperature.", None, SET_BY),
     "BlendObjective": Enum(("most_even", "least_ionic"), "How a blend's shares are chosen among the many that reach the target.", None, {
         "most_even": "The shares nearest to equal shares (least sum of squared deviations).",
         "least_ionic": "The least total share of ionic members; ties broken by most_even."}),

@@ -233,6 +233,27 @@ class TotalsSchema(Schema):
     batch_mass_g = fields.Float(required=True)
 
 
+class MeltingRangeUsedSchema(Schema):
+    name = fields.String(required=True)
+    top_c = fields.Float(required=True, metadata={"description": "The top of the melting range (every current source's), degC."})
+    basis = fields.String(required=True, metadata={"description": "Source, locator and status of the melting range."})
+
+
+class ProcessingTemperatureSchema(Schema):
+    temperature_c = fields.Float(required=True, allow_none=True, metadata={
+        "description": "The temperature the phases are heated to, degC: the usual 70, or 5 above the highest melting range's top, "
+                       "rounded up to a whole 5 (common practice, no source); null when nothing needs melting (a cold process)."})
+    heated = fields.Boolean(required=True)
+    set_by = enum_field("HeatingSetBy", required=True)
+    note = fields.String(required=True, metadata={"description": "What set it, in words, with the melting range's source."})
+    melting_ranges = fields.List(fields.Nested(MeltingRangeUsedSchema), required=True, metadata={
+        "description": "The melting ranges used: every solid or semisolid of the phases that has one."})
+    without_melting_range = fields.List(fields.String(), required=True, metadata={
+        "description": "Solids and semisolids with no melting range on record: heat until melted."})
+    unverified_left_out = fields.List(fields.Nested(MeltingRangeUsedSchema), required=True, metadata={
+        "description": "Strict mode: melting ranges on record left out as unverified (each warned about, with the temperature it would set)."})
+
+
 class WorksheetResultSchema(Schema):
     emulsion_type = enum_field("EmulsionType", required=True)
     batch_mass_g = fields.Float(required=True)
@@ -242,6 +263,9 @@ class WorksheetResultSchema(Schema):
     dispersed_phase = fields.Nested(DispersedPhaseSchema, required=True)
     emulsifier = fields.Nested(EmulsifierOutSchema, required=True)
     rows = fields.List(fields.Nested(WorksheetRowSchema), required=True)
+    processing_temperature_c = fields.Float(required=True, allow_none=True, metadata={
+        "description": "The phases' processing temperature, degC (null: a cold process); what set it is processing_temperature."})
+    processing_temperature = fields.Nested(ProcessingTemperatureSchema, required=True)
     totals = fields.Nested(TotalsSchema, required=True)
     equipment = fields.Nested(EquipmentOutSchema, required=True)
     checks = fields.List(fields.Nested(GlobalCheckSchema), required=True)
