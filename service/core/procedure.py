@@ -43,6 +43,10 @@ class ProcedureRow:
     dissolves_in_basis: str | None = None
     melting_top_c: float | None = None
     melting_basis: str | None = None
+    # What the figure is, in words: a melting range's top, a congealing
+    # temperature or a drop point, which the pharmacopoeias measure each its
+    # own way (e.g. "congealing temperature 54 °C"); the note quotes it.
+    melting_figure: str | None = None
     # A melting range on record but left out (strict mode: unverified); its
     # top and basis, so the procedure can say what was not used.
     melting_left_out_top_c: float | None = None
@@ -142,7 +146,7 @@ def heating_note(h: Heating) -> str:
     if h.highest:
         why = (f"{ABOVE_MELTING_C:g} °C above it, rounded up to a whole 5 °C" if h.set_by == "melting_range" else
                f"{ABOVE_MELTING_C:g} °C above it is not above the usual {USUAL_HEATING_C:g} °C, which is used")
-        note = (f"the highest-melting component of the oil phase is {h.highest.label}, melting range up to {h.highest.melting_top_c:g} °C "
+        note = (f"the highest-melting component of the oil phase is {h.highest.label}, {h.highest.melting_figure or f'melting range up to {h.highest.melting_top_c:g} °C'} "
                 f"({h.highest.melting_basis}); {why}")
     else:
         note = f"no melting range is used for the solids; the usual {USUAL_HEATING_C:g} °C is used"

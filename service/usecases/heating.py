@@ -24,6 +24,20 @@ def _basis(registry: Registry, value) -> str:
     return f"{source.id}{', ' + value.locator if value.locator else ''}, {value.status}"
 
 
+# How the note names a figure, by its `basis` in the registry.
+_FIGURE_WORDS = {"melting_range": "melting range up to", "congealing_range": "congealing temperature", "drop_point": "drop point"}
+
+
+def _figure(melting, low: float, high: float) -> str:
+    words = _FIGURE_WORDS.get(melting.basis or "melting_range", "melting range up to")
+    if low == high and words == "melting range up to":
+        words = "melting point"
+    if melting.conditions and "lower limit" in melting.conditions:
+        # A pharmacopeial minimum only: the material may melt higher.
+        return f"{words.removesuffix(' up to')} not lower than {high:g} °C (a lower limit only)"
+    return f"{words} {high:g} °C"
+
+
 def processing_row(row: dict, entry: dict, registry: Registry, hlb_by_row: dict, values_used: ValuesUsed, path: tuple,
                    strict: bool = False) -> ProcedureRow:
     """What heating and the procedure need of a worksheet row: where it goes,
@@ -31,7 +45,7 @@ def processing_row(row: dict, entry: dict, registry: Registry, hlb_by_row: dict,
     its source. `entry` is the record's component entry ({} for a worksheet)."""
     record = registry.get(row["ingredient"]) if row["ingredient"] else None
     melting = record.preferred("melting_range") if record else None
-    top, melting_basis, left_out_top, left_out_basis = None, None, None, None
+    top, melting_basis, left_out_top, left_out_basis, figure = None, None, None, None, None
     if melting is not None:
         # The top of every current source's range: enough heat to melt the
         # material whichever source is right.
@@ -42,7 +56,7 @@ def processing_row(row: dict, entry: dict, registry: Registry, hlb_by_row: dict,
         if strict and used.unverified_registry_value:
             left_out_top, left_out_basis = high, _basis(registry, melting)
         else:
-            top, melting_basis = high, _basis(registry, melting)
+            top, melting_basis, figure = high, _basis(registry, melting), _figure(melting, low, high)
             values_used.add(used, key=lambda v: (v.ingredient, v.property))
     processing = record.processing if record else None
     dissolves_in, basis = None, None
@@ -64,7 +78,8 @@ def processing_row(row: dict, entry: dict, registry: Registry, hlb_by_row: dict,
         late = "heat-sensitive"
     water = bool(record and "aqueous_vehicle" in record.functions)
     return ProcedureRow(row["name"], row["phase"], row["role"], row["physical_state"], row["mass_g"], dissolves_in=dissolves_in,
-                        dissolves_in_basis=basis, melting_top_c=top, melting_basis=melting_basis, melting_left_out_top_c=left_out_top,
+                        dissolves_in_basis=basis, melting_top_c=top, melting_basis=melting_basis, melting_figure=figure,
+                        melting_left_out_top_c=left_out_top,
                         melting_left_out_basis=left_out_basis, late=late, is_water=water)
 
 

@@ -155,3 +155,14 @@ def test_a_record_of_a_cold_process_has_no_cloud_point_warning(client):
     assert answer.status_code == 200, answer.get_data(as_text=True)
     answer = answer.get_json()
     assert not answer["result"]["procedure"]["heated"] and not _cloud(answer)
+
+
+def test_a_congealing_minimum_is_named_as_such(client, registry):
+    # Stearic acid's monograph states a congealing temperature of not lower than 54 degC (registry basis
+    # congealing_range, conditions "a lower limit only"): the note must not call it a melting range's top.
+    melting = registry.get("stearic-acid").preferred("melting_range")
+    assert melting.basis == "congealing_range" and "lower limit" in melting.conditions
+    body = client.post(SHEET, json=_sheet(_solid("stearic-acid"))).get_json()
+    note = body["result"]["processing_temperature"]["note"]
+    assert "Stearic acid, congealing temperature not lower than 54 °C (a lower limit only)" in note
+    assert "melting range up to 54" not in note
