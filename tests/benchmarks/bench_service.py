@@ -51,9 +51,11 @@ class Case:
     path: str
     body: bytes
     accept: str = "application/json"
+    # Calculations in one request: a batch call's items, else 1.
+    items: int = 1
 
 
-def cases() -> list[Case]:
+def cases(match: str = "") -> list[Case]:
     """Every POST operation of the spec that has an example, with its first
     example; the worksheet, amounts taken and compounding record also as
     Markdown. An operation the app does not have is not in its spec, so the
@@ -69,11 +71,14 @@ def cases() -> list[Case]:
         op_id = operation["operationId"]
         name, example = next(iter(EXAMPLES[op_id].items()))
         body = json.dumps(example["value"]).encode()
-        found.append(Case(f"{op_id} ({name})", path, body))
+        # A batch call (if the app has one) is counted in items too: the
+        # length of the first list in its body.
+        lists = [v for v in example["value"].values() if isinstance(v, list)] if "batch" in op_id.lower() else []
+        found.append(Case(f"{op_id} ({name})", path, body, items=len(lists[0]) if lists else 1))
         offered = operation["responses"].get("200", {}).get("content", {})
         if "text/markdown" in offered and op_id in ("createWorksheet", "checkAmountsTaken", "createCompoundingRecord"):
             found.append(Case(f"{op_id} ({name}, Markdown)", path, body, "text/markdown"))
-    return found
+    return [case for case in found if match.lower() in case.label.lower()]
 
 
 # -- the machine ------------------------------------------------------------
@@ -262,11 +267,11 @@ def format_table(rows: list[dict]) -> str:
     return "\n".join(lines)
 
 
-def measure_rows(port: int, clients: int, seconds: float, rounds: int, fresh: bool) -> list[dict]:
+def measure_rows(port: int, clients: int, seconds: float, rounds: int, fresh: bool, match: str = "") -> list[dict]:
     """Each case and its reference, one after the other in each round; the
     rounds interleaved, so that a slow spell of the machine falls on both."""
     plans = []
-    for case in cases():
+    for case in cases(match):
         status, body = one(port, request_bytes(case, port=port))
         if status != 200:
             print(f"  skipped {case.label}: answered {status}: {body[:200]!r}")
@@ -288,7 +293,7 @@ def measure_rows(port: int, clients: int, seconds: float, rounds: int, fresh: bo
     rows = []
     for case, size, *_ in plans:
         ours, theirs = results[case.label]
-        rows.append({"label": case.label, "size": size, "rps": statistics.median(ours), "reference_rps": statistics.median(theirs),
+        rows.append({"label": case.label, "size": size, "items": case.items, "rps": statistics.median(ours), "reference_rps": statistics.median(theirs),
                      "ratio": statistics.median(o / t for o, t in zip(ours, theirs))})
     return rows
 
@@ -298,7 +303,13 @@ def part_throughput(args) -> None:
           f"{args.rounds} interleaved rounds of {args.seconds} s per measurement")
     with Server() as server:
         print(f"gunicorn -c service/gunicorn_conf.py: {len(server.workers())} workers, port {server.port}")
-        print(format_table(measure_rows(server.port, args.clients, args.seconds, args.rounds, args.fresh)))
+        rows = measure_rows(server.port, args.clients, args.seconds, args.rounds, args.fresh, args.match)
+        print(format_table(rows))
+        single = next((row for row in rows if row["label"].startswith("blendHlb")), None)
+        for row in rows:
+            if row.get("items", 1) > 1:
+                print(f"{row['label']}: {row['items']} items a request, {row['rps'] * row['items']:.0f} items/s"
+                      + (f", {row['rps'] * row['items'] / single['rps']:.1f}x the {single['label']} requests/s" if single else ""))
 
 
 def part_startup(args, big_root: str) -> None:
@@ -417,6 +428,7 @@ def main(argv: list[str] | None = None) -> None:
     parser.add_argument("--clients", type=int, default=4, help="client processes, each with one connection")
     parser.add_argument("--fresh", action="store_true", help="a fresh connection per request instead of kept-alive ones")
     parser.add_argument("--long", type=int, default=0, help="memory: send this many more requests and measure again (e.g. 100000)")
+    parser.add_argument("--match", default="", help="throughput: only the operations whose label holds this text")
     parser.add_argument("--pairs-repeat", type=int, default=20)
     args = parser.parse_args(argv)
     parts = [p.strip() for p in args.only.split(",") if p.strip()]
