@@ -64,7 +64,8 @@ def cases(match: str = "") -> list[Case]:
     from service.http.spec_examples import EXAMPLES
 
     found = []
-    for path, item in build_spec()["paths"].items():
+    spec = build_spec()
+    for path, item in spec["paths"].items():
         operation = item.get("post")
         if operation is None or not EXAMPLES.get(operation["operationId"]):
             continue
@@ -78,7 +79,23 @@ def cases(match: str = "") -> list[Case]:
         offered = operation["responses"].get("200", {}).get("content", {})
         if "text/markdown" in offered and op_id in ("createWorksheet", "checkAmountsTaken", "createCompoundingRecord"):
             found.append(Case(f"{op_id} ({name}, Markdown)", path, body, "text/markdown"))
+        if lists and all(isinstance(item, dict) and set(item) >= {"operation", "body"} for item in lists[0]) and "blendHlb" in EXAMPLES:
+            # The goal's measure: a full batch of blend HLBs against single ones.
+            most = _max_items(spec, operation)
+            one_blend = {"operation": "blendHlb", "body": next(iter(EXAMPLES["blendHlb"].values()))["value"]}
+            found.append(Case(f"{op_id} ({most} blendHlb items)", path, json.dumps({"items": [one_blend] * most}).encode(), items=most))
     return [case for case in found if match.lower() in case.label.lower()]
+
+
+def _max_items(spec: dict, operation: dict) -> int:
+    """The most items the spec lets a batch hold (100 if it does not say)."""
+    try:
+        schema = operation["requestBody"]["content"]["application/json"]["schema"]
+        if "$ref" in schema:
+            schema = spec["components"]["schemas"][schema["$ref"].rpartition("/")[2]]
+        return int(schema["properties"]["items"]["maxItems"])
+    except (KeyError, TypeError, ValueError):
+        return 100
 
 
 # -- the machine ------------------------------------------------------------
