@@ -50,6 +50,10 @@ def create_app(config: Mapping | None = None) -> Flask:
     for module in (calculation_views, worksheet_views, record_views, estimate_views, ingredient_views, meta_views):
         app.register_blueprint(module.bp)
     app.register_blueprint(soap_views.bp)
+    if settings.benchmark:
+        from service.http.blueprints import benchmark_views
+
+        app.register_blueprint(benchmark_views.bp)
 
     @app.after_request
     def _registry_header(response):

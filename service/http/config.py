@@ -196,6 +196,9 @@ class Settings:
     api_tokens: tuple[str, ...] = field(default=(), repr=False)
     # Origins whose browser pages may call the service (CORS); none by default.
     cors_origins: tuple[str, ...] = ()
+    # The benchmark's reference endpoint (service/http/blueprints/benchmark_views.py),
+    # for tests/benchmarks/bench_service.py only; off by default, never in the spec.
+    benchmark: bool = False
 
     def __post_init__(self):
         # Settings given to create_app directly are held to the same rules.
@@ -215,4 +218,5 @@ class Settings:
             max_body_bytes=whole_number(env, "EMULSION_MAX_BODY_BYTES", DEFAULT_MAX_BODY_BYTES),
             api_tokens=_tokens(env),
             cors_origins=_origins(env),
+            benchmark=_flag(env, "EMULSION_BENCHMARK"),
         )
