@@ -1,7 +1,8 @@
 """Where the time of one request goes, in process, run by hand (not collected
 by pytest): cProfile over the Flask test client, with the JSON logging of
 service/gunicorn_conf.py writing to /dev/null, split into the parts of an
-answer's life.
+answer's life; then what one request log line costs beside gunicorn's plain
+access line.
 
     .venv/bin/python -m tests.benchmarks.profile_request [operationId/example ...]
 """
@@ -63,10 +64,45 @@ def split(op: str, name: str, repeat: int = 300) -> dict[str, float]:
     return {label: seconds / total for label, seconds in parts.items()}
 
 
+def log_line_cost(n: int = 20000) -> None:
+    """The service's JSON request line against gunicorn's plain access line,
+    each formatted and written to /dev/null, in microseconds a line."""
+    import datetime
+    import time
+
+    from gunicorn.config import Config
+    from gunicorn.glogging import Logger
+
+    cfg = Config()
+    cfg.set("accesslog", os.devnull)
+    plain = Logger(cfg)
+    response = type("Resp", (), {"status": "200 OK", "status_code": 200, "sent": 180, "response_length": 180,
+                                 "headers": [("Content-Type", "application/json")]})()
+    request = type("Req", (), {"headers": [("HOST", "127.0.0.1"), ("CONTENT-TYPE", "application/json")]})()
+    environ = {"REQUEST_METHOD": "POST", "RAW_URI": "/v1/blends/hlb", "PATH_INFO": "/v1/blends/hlb", "QUERY_STRING": "",
+               "SERVER_PROTOCOL": "HTTP/1.1", "REMOTE_ADDR": "127.0.0.1", "HTTP_USER_AGENT": "bench", "HTTP_REFERER": "-"}
+    took = datetime.timedelta(microseconds=1234)
+    start = time.perf_counter()
+    for _ in range(n):
+        plain.access(response, request, environ, took)
+    gunicorn_us = (time.perf_counter() - start) / n * 1e6
+    logging.config.dictConfig(logconfig())
+    logging.getLogger().handlers[0].setStream(open(os.devnull, "w"))
+    log = logging.getLogger("service.requests")
+    extra = {"request_id": "a" * 32, "method": "POST", "path": "/v1/blends/hlb", "status": 200, "latency_ms": 1.234,
+             "registry_version": "0.7.0+sha256.a3df5157318c", "operation_id": "blendHlb"}
+    start = time.perf_counter()
+    for _ in range(n):
+        log.info("%s %s %d", "POST", "/v1/blends/hlb", 200, extra=extra)
+    service_us = (time.perf_counter() - start) / n * 1e6
+    print(f"a log line: gunicorn's access line {gunicorn_us:.1f} us, the service's JSON request line {service_us:.1f} us")
+
+
 def main(args: list[str]) -> None:
     for item in args or DEFAULT:
         op, name = item.split("/")
         split(op, name)
+    log_line_cost()
 
 
 if __name__ == "__main__":
