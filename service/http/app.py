@@ -19,6 +19,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     logged as a warning, naming both records and how to resolve it."""
     from service.http import access, headers
     from service.http.blueprints import calculation_views, estimate_views, ingredient_views, meta_views, record_views, worksheet_views
+    from service.http.bodies import install_indent
     from service.http.problems import register_error_handlers
     from service.http import requests_seen
     from service.http.jsonio import StrictJSONProvider
@@ -46,6 +47,8 @@ def create_app(config: Mapping | None = None) -> Flask:
     requests_seen.install(app, registry.version, spec)
     register_error_handlers(app)
     access.install(app, settings)
+    # After the token check: a caller without a token learns nothing else.
+    install_indent(app)
     headers.install(app, tokens_required=bool(settings.api_tokens))
     for module in (calculation_views, worksheet_views, record_views, estimate_views, ingredient_views, meta_views):
         app.register_blueprint(module.bp)

@@ -3,11 +3,11 @@ from __future__ import annotations
 
 import re
 
-from flask import Response, current_app, json, request
+from flask import Flask, Response, current_app, g, request
 from marshmallow import Schema, ValidationError
 
 from service.http.problems import TYPE_MALFORMED, ApiProblem, validation_problem
-from service.http.jsonio import StrictJSONError, strict_loads
+from service.http.jsonio import INDENT_PARAMETER, MAX_INDENT, StrictJSONError, encode, strict_loads
 
 _JSON_TYPE = re.compile(r"^application/([a-z0-9.+-]+\+)?json$")
 
@@ -39,6 +39,8 @@ def load_body(schema: Schema) -> dict:
 
 def load_query(schema: Schema) -> dict:
     args = request.args.to_dict(flat=False)
+    # The answer's layout, not an input of the operation (see install_indent).
+    args.pop(INDENT_PARAMETER, None)
     repeated = {k: ["Give this parameter once."] for k, v in args.items() if len(v) > 1}
     if repeated:
         raise validation_problem(repeated, location="query")
@@ -49,6 +51,27 @@ def load_query(schema: Schema) -> dict:
 
 
 def answer(schema: Schema, payload: dict, status: int = 200) -> Response:
-    # Indented, so that an answer read through curl is legible as it stands.
-    body = json.dumps(schema.dump(payload), indent=2) + "\n"
-    return Response(body, status=status, mimetype="application/json")
+    """`payload` as it stands: the use cases build it in its final form, and
+    the tests check every answer against `schema`'s published form (tests/api/
+    conftest.py), so no dump runs per request. `schema` names the shape."""
+    return Response(encode(payload, g.get("indent", 0)), status=status, mimetype="application/json")
+
+
+def install_indent(app: Flask) -> None:
+    """The `indent` query parameter of every operation: 1 to 8 spaces of
+    indentation for a person reading JSON at a terminal, 0 (the default)
+    for compact JSON. Anything else is refused, naming the parameter."""
+
+    @app.before_request
+    def _indent():
+        values = request.args.getlist(INDENT_PARAMETER)
+        if not values:
+            return None
+        if len(values) > 1:
+            raise validation_problem({INDENT_PARAMETER: ["Give this parameter once."]}, location="query")
+        text = values[0]
+        if not (text.isascii() and text.isdigit() and len(text) == 1 and int(text) <= MAX_INDENT):
+            raise validation_problem({INDENT_PARAMETER: [f"Not a valid indent: give a whole number of spaces from 0 to {MAX_INDENT}."]},
+                                     location="query")
+        g.indent = int(text)
+        return None

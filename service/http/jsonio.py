@@ -56,6 +56,22 @@ def strict_loads(text: str | bytes):
         raise StrictJSONError(f"not valid JSON: {exc}") from None
 
 
+# Compact by default, through the C encoder (json's C accelerator runs only
+# with indent=None); indented on request (the `indent` query parameter), for
+# a person reading at a terminal.
+_COMPACT = json.JSONEncoder(separators=(",", ":"), ensure_ascii=False, allow_nan=False).encode
+MAX_INDENT = 8
+INDENT_PARAMETER = "indent"
+
+
+def encode(obj, indent: int = 0) -> str:
+    """`obj` as the body of an answer or a problem, newline-terminated.
+    Raises ValueError on a non-finite number."""
+    if not indent:
+        return _COMPACT(obj) + "\n"
+    return json.dumps(obj, indent=indent, ensure_ascii=False, allow_nan=False) + "\n"
+
+
 class StrictJSONProvider(DefaultJSONProvider):
     sort_keys = False
     ensure_ascii = False

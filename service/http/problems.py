@@ -6,12 +6,13 @@ from __future__ import annotations
 import logging
 import uuid
 
-from flask import Flask, g, has_request_context, json, Response
+from flask import Flask, g, has_request_context, Response
 from marshmallow import ValidationError
 from werkzeug.exceptions import HTTPException
 
 # pointer is re-exported: the HTTP layer's own faults use it too.
 from service.core.errors import CalculationError, InvalidInput, UnverifiedValuesRefused, pointer, printable
+from service.http.jsonio import encode
 
 PROBLEM_TYPE = "application/problem+json"
 log = logging.getLogger("service")
@@ -104,9 +105,13 @@ def problem_response(status: int, title: str, detail: str, *, type_: str = "abou
         body.update(_capped(errors))
     body.update(extra)
     # The id the caller can quote, the same as in the X-Request-ID header and the log lines.
-    if has_request_context() and g.get("request_id"):
-        body["request_id"] = g.request_id
-    response = Response(json.dumps(_encodable(body), indent=2) + "\n", status=status, mimetype=PROBLEM_TYPE)
+    indent = 0
+    if has_request_context():
+        if g.get("request_id"):
+            body["request_id"] = g.request_id
+        # Laid out as the answer would have been (compact unless `indent` was given and valid).
+        indent = g.get("indent", 0)
+    response = Response(encode(_encodable(body), indent), status=status, mimetype=PROBLEM_TYPE)
     for name, value in (headers or {}).items():
         if name.lower() != "content-type":
             response.headers[name] = value

@@ -23,6 +23,7 @@ from service.http.schemas.fields import Boolean, Number, QueryNumber
 from service.http.schemas import blend_bodies, interface_bodies
 from service.http.schemas.enums import publish as publish_enums
 from service.http.schemas.rules import RuleChecks, published
+from service.http.jsonio import INDENT_PARAMETER as INDENT_PARAMETER_NAME, MAX_INDENT
 from service.http.logs import REQUEST_ID_PATTERN
 
 SPEC_PATH = Path(__file__).resolve().parents[2] / "openapi" / "openapi.json"
@@ -182,6 +183,14 @@ REQUEST_ID_PARAMETER = {
                    "X-Request-ID response header, in every log line of the request and as `request_id` in a problem.",
     "schema": {"type": "string"},
 }
+# Every JSON answer and problem is compact unless a person asks for it laid out.
+INDENT_PARAMETER = {
+    "in": "query", "name": INDENT_PARAMETER_NAME, "required": False, "example": 2,
+    "description": f"Spaces of indentation for a JSON answer or problem, 1 to {MAX_INDENT}, for reading at a terminal "
+                   "(`?indent=2`); 0 or absent gives compact JSON. Any other value is refused (422, naming `indent`). "
+                   "Markdown, text, PDF and SVG answers and the OpenAPI document are not affected.",
+    "schema": {"type": "integer", "minimum": 0, "maximum": MAX_INDENT},
+}
 REQUEST_ID_RESPONSE_HEADER = {
     "description": "The request's id: the caller's X-Request-ID when it was kept, else a generated one (32 hex digits).",
     "required": True, "schema": {"type": "string", "pattern": REQUEST_ID_PATTERN},
@@ -223,7 +232,9 @@ def build_spec() -> dict:
             if op_id in EXAMPLES:
                 content["examples"] = EXAMPLES[op_id]
             operation["requestBody"] = {"required": True, "content": {"application/json": content}}
-        parameters = [REQUEST_ID_PARAMETER]
+        parameters = [REQUEST_ID_PARAMETER, INDENT_PARAMETER]
+        if "422" not in errors:
+            errors = (*errors, "422")
         if query is not None:
             parameters.append({"in": "query", "schema": query})
         if "{ingredient_id}" in path:

@@ -123,7 +123,7 @@ def _final_weight(batch_g: float, final_g: float | None, tolerance_percent: floa
                f"{d.percent:+.3f} % {'within' if d.within else 'beyond'} the tolerance of {tolerance:g} %")
     if not d.within:
         message += ": find where the difference went (losses on heating, a row missed or doubled) before the batch goes on"
-    return totals, [{"code": "final_weight_within_tolerance", "ok": d.within, "subject": None, "message": message}]
+    return totals, [{"code": "final_weight_within_tolerance", "ok": d.within, "message": message, "subject": None}]
 
 
 def check_amounts_taken(worksheet_result: dict, taken: list[dict], final_weight_g: float | None, tolerance_percent: float | None) -> dict:
@@ -144,9 +144,9 @@ def check_amounts_taken(worksheet_result: dict, taken: list[dict], final_weight_
     out.sort(key=lambda x: x["row"])
     done = {x["row"] for x in out}
     not_taken = [{"row": r, "ingredient": row["ingredient"], "name": row["name"]} for r, row in enumerate(rows) if r not in done]
-    checks = [{"code": "every_row_taken", "ok": not not_taken, "subject": None,
-               "message": "every row of the worksheet has an amount taken" if not not_taken else
-               f"{len(not_taken)} row(s) have no amount taken: " + ", ".join(f"row {x['row']} ({_label(rows[x['row']])})" for x in not_taken)}]
+    checks = [{"code": "every_row_taken", "ok": not not_taken, "message": "every row of the worksheet has an amount taken" if not not_taken else
+               f"{len(not_taken)} row(s) have no amount taken: " + ", ".join(f"row {x['row']} ({_label(rows[x['row']])})" for x in not_taken),
+               "subject": None}]
     totals, final_checks = _final_weight(worksheet_result["batch_mass_g"], final_weight_g, tolerance_percent, balance,
                                          sum(x["taken_mass_g"] for x in out))
     checks += final_checks

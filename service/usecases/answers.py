@@ -30,7 +30,42 @@ def method_block(method: Method, registry: Registry) -> dict:
     }
 
 
-def _first_non_finite(value, path=()):
+class _NonFinite(Exception):
+    """A non-finite number met by _final."""
+
+
+def _final(value):
+    """`value` with its floats tidied (see tidy), in one pass that also
+    refuses a non-finite number (raising _NonFinite; _where then finds it,
+    only on that rare path, so the pass carries no path). Tuples are checked
+    but left as they are, as tidy leaves them."""
+    kind = type(value)
+    if kind is float:
+        if value - value != 0.0:  # inf - inf and nan - nan are nan; a finite float gives 0.0
+            raise _NonFinite
+        return float(f"{value:.10g}")
+    if kind is dict:
+        return {k: _final(v) for k, v in value.items()}
+    if kind is list:
+        return [_final(v) for v in value]
+    if kind is str or kind is int or kind is bool or value is None:
+        return value
+    if kind is tuple:
+        for v in value:
+            _final(v)
+        return value
+    # Subclasses (a numpy float, an OrderedDict) take the slower road.
+    if isinstance(value, float):
+        return _final(float(value))
+    if isinstance(value, dict):
+        return _final(dict(value))
+    if isinstance(value, list):
+        return _final(list(value))
+    return value
+
+
+def _where(value, path=()):
+    """The path of the first non-finite number in `value`, or None."""
     if isinstance(value, float) and not math.isfinite(value):
         return path
     if isinstance(value, dict):
@@ -40,25 +75,35 @@ def _first_non_finite(value, path=()):
     else:
         return None
     for key, item in items:
-        found = _first_non_finite(item, path + (key,))
+        found = _where(item, path + (key,))
         if found is not None:
             return found
     return None
+
+
+def _warning(w: dict) -> dict:
+    # Members in the published order, whichever order the builder used.
+    return {"code": w["code"], "message": w["message"], "subject": w["subject"]}
 
 
 def envelope(result: dict, inputs: dict, method: Method, values_used: Iterable[ValueUsed], warnings: list[dict], registry: Registry,
              strict: bool = False, extra_cautions: tuple[str, ...] = ()) -> dict:
     """The whole answer. A result that overflowed (extreme but valid inputs)
     is refused rather than written out as a wrong number."""
-    bad = _first_non_finite(result)
-    if bad is not None:
-        raise CalculationError((), "finite_result", f"the inputs give a result out of range (result/{'/'.join(map(str, bad))}); check the amounts and units")
+    try:
+        final = _final({"result": result, "inputs": inputs, "values_used": [v.as_dict() for v in values_used]})
+    except _NonFinite:
+        # The inputs passed the strict parse and the values used the
+        # registry's checks: the result is where an overflow shows.
+        where = _where({"result": result, "inputs": inputs})
+        raise CalculationError((), "finite_result", f"the inputs give a result out of range ({'/'.join(map(str, where or ('result',)))}); "
+                                                    "check the amounts and units") from None
     return {
-        "result": tidy(result),
-        "inputs": tidy(inputs),
+        "result": final["result"],
+        "inputs": final["inputs"],
         "method": method_block(method, registry),
-        "values_used": tidy([v.as_dict() for v in values_used]),
-        "warnings": warnings + provenance_warnings(values_used),
+        "values_used": final["values_used"],
+        "warnings": [_warning(w) for w in warnings + provenance_warnings(values_used)],
         "cautions": list(CAUTIONS) + list(extra_cautions),
         "strict": strict,
         "registry": registry_version(registry),

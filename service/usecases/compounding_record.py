@@ -53,7 +53,7 @@ def _component_out(i: int, row: dict, entry: dict) -> dict:
         "row": i, "ingredient": row["ingredient"], "name": row["name"], "phase": row["phase"], "role": row["role"],
         "percent_w_w": row["percent_w_w"], "mass_g": row["mass_g"], "mass": row["mass"], "volume": row["volume"],
         "how": row["measure"]["how"], "supplier": entry.get("supplier"), "lot": entry.get("lot"), "expiry": entry.get("expiry"),
-        "active": bool(entry.get("active")), "preservative": bool(entry.get("preservative")),
+        "expiry_read_as": None, "active": bool(entry.get("active")), "preservative": bool(entry.get("preservative")),
     }
 
 

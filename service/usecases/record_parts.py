@@ -81,7 +81,7 @@ def required_elements(result: dict, source: dict) -> dict:
     mfr, cr = listed(MASTER_FORMULATION_ELEMENTS), listed(COMPOUNDING_RECORD_ELEMENTS)
     to_fill = list(dict.fromkeys(x["element"] for x in mfr + cr if not x["filled"]))
     before = list(dict.fromkeys(x["element"] for x in mfr + cr if not x["filled"] and not x["at_the_bench"]))
-    return {"master_formulation_record": mfr, "compounding_record": cr, "to_fill": to_fill, "to_fill_before_compounding": before, **source,
+    return {**source, "master_formulation_record": mfr, "compounding_record": cr, "to_fill": to_fill, "to_fill_before_compounding": before,
             "note": "The required elements as the chapter lists them, written from memory of it: confirm against the chapter in force."}
 
 

@@ -28,7 +28,9 @@ def _record(registry: Registry, r: ValueRecord) -> dict:
     source = registry.sources[r.source_id]
     return {
         "figure": r.figure, "low": r.low, "high": r.high, "unit": UNITS.get(r.property),
-        "recorded": dict(r.recorded), "recorded_unit": r.unit, "basis": r.basis, "temperature_c": r.temperature_c,
+        # Floats as the published schema has them: a data file may write 25 for 25.0.
+        "recorded": {k: float(v) for k, v in r.recorded.items()}, "recorded_unit": r.unit, "basis": r.basis,
+        "temperature_c": None if r.temperature_c is None else float(r.temperature_c),
         "conditions": r.conditions, "source": source_block(source),
         "locator": r.locator, "kind": r.kind, "method": r.method, "status": r.status,
         "reviewed_by": r.reviewed_by, "reviewed_on": r.reviewed_on, "recalled_from_memory": r.recalled_from_memory,

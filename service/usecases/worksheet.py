@@ -179,19 +179,19 @@ def _global_checks(data, c: Computed, registry: Registry) -> list[dict]:
     reached = c.emulsifier["_mean"]
     finding = core_findings.usual_range_finding(reached, etype, hlb_ranges(registry))
     low, high = hlb_ranges(registry)[core_findings.RANGE_FOR_EMULSION_TYPE[etype]]
-    out.append({"code": "hlb_suits_emulsion_type", "ok": finding is None, "subject": "emulsifier",
-                "message": finding.message if finding else f"blend HLB {reached:.1f} lies in the range usual for {etype} emulsifiers, {low:g} to {high:g}"})
+    out.append({"code": "hlb_suits_emulsion_type", "ok": finding is None, "message": finding.message if finding else f"blend HLB {reached:.1f} lies in the range usual for {etype} emulsifiers, {low:g} to {high:g}",
+                "subject": "emulsifier"})
     # Against the required HLB as printed, which is what the pair was solved for.
     required = hlb_display(c.rhlb.required_hlb.figure)
     diff = reached - required
-    out.append({"code": "blend_matches_required_hlb", "ok": abs(diff) <= HLB_MATCH_TOLERANCE, "subject": "emulsifier",
-                "message": f"blend HLB {reached:.1f} against the oil phase's required HLB {required:.1f} (difference {diff:+.1f})"})
+    out.append({"code": "blend_matches_required_hlb", "ok": abs(diff) <= HLB_MATCH_TOLERANCE, "message": f"blend HLB {reached:.1f} against the oil phase's required HLB {required:.1f} (difference {diff:+.1f})",
+                "subject": "emulsifier"})
     emulsifiers = [r for r in c.rows if r.role == "emulsifier"]
     classes = [r.item.ionic_class for r in emulsifiers] + [r.item.ionic_class for r in c.rows if r.role != "emulsifier" and r.item.ionic_class in ("anionic", "cationic")]
     ionic = core_findings.ionic_findings(classes)
     incompatible = [f for f in ionic if f.code == "ionic_incompatibility"]
-    out.append({"code": "ionic_compatibility", "ok": not incompatible, "subject": None,
-                "message": incompatible[0].message if incompatible else "no anionic and cationic ingredients are combined"})
+    out.append({"code": "ionic_compatibility", "ok": not incompatible, "message": incompatible[0].message if incompatible else "no anionic and cationic ingredients are combined",
+                "subject": None})
     levels = registry.emulsifier_levels
     for r in emulsifiers:
         level = levels.for_ingredient(r.item.ingredient_id) if levels and r.item.ingredient_id else None
@@ -199,9 +199,9 @@ def _global_checks(data, c: Computed, registry: Registry) -> list[dict]:
             continue
         lo, hi = level.alone if len(emulsifiers) == 1 else level.with_partner
         ok = lo <= r.percent <= hi
-        out.append({"code": "emulsifier_level", "ok": ok, "subject": r.item.ingredient_id,
-                    "message": f"{r.item.ingredient_id} at {r.percent:.2f} % w/w; usual for {level.family} {'alone' if len(emulsifiers) == 1 else 'with a partner'}: {lo:g} to {hi:g} % "
-                               f"({levels.source_id}, {'recalled from memory, ' if levels.recalled_from_memory else ''}{levels.status})"})
+        out.append({"code": "emulsifier_level", "ok": ok, "message": f"{r.item.ingredient_id} at {r.percent:.2f} % w/w; usual for {level.family} {'alone' if len(emulsifiers) == 1 else 'with a partner'}: {lo:g} to {hi:g} % "
+                               f"({levels.source_id}, {'recalled from memory, ' if levels.recalled_from_memory else ''}{levels.status})",
+                    "subject": r.item.ingredient_id})
     return out
 
 
@@ -267,17 +267,17 @@ def worksheet_parts(data: dict, registry: Registry, strict: bool = False, rescal
         out_rows.append(_row_out(row, b, measure, checks, volume, mass_unit, volume_unit))
     total_mass = sum(b.mass_g for b in batch_rows)
     checks = _global_checks(data, c, registry)
-    checks.append({"code": "totals_add_up", "ok": abs(total_mass - c.batch_mass_g) < 1e-6, "subject": None,
-                   "message": f"the masses add up to {total_mass:.6g} g for a batch of {c.batch_mass_g:.6g} g"})
+    checks.append({"code": "totals_add_up", "ok": abs(total_mass - c.batch_mass_g) < 1e-6, "message": f"the masses add up to {total_mass:.6g} g for a batch of {c.batch_mass_g:.6g} g",
+                   "subject": None})
     capacity = capacity_check(c.batch_mass_g, balance.capacity_g)
-    checks.append({"code": "batch_within_balance_capacity", "ok": capacity.ok, "subject": None,
-                   "message": f"the whole batch, made up to weight: {capacity.message}"})
+    checks.append({"code": "batch_within_balance_capacity", "ok": capacity.ok, "message": f"the whole batch, made up to weight: {capacity.message}",
+                   "subject": None})
     fraction, basis = _dispersed_fraction(data, c, registry, strict)
     phase = core_findings.phase_volume_findings(fraction, basis)
     packing = next((f for f in phase if f.code == "dispersed_phase_above_packing_limit"), None)
-    checks.append({"code": "dispersed_phase_volume", "ok": packing is None, "subject": "dispersed_phase",
-                   "message": packing.message if packing else f"the dispersed phase is {fraction * 100:.1f} % of the emulsion ({basis}), "
-                   f"below the {core_findings.MAX_PACKING_FRACTION * 100:.1f} % uniform spheres can fill"})
+    checks.append({"code": "dispersed_phase_volume", "ok": packing is None, "message": packing.message if packing else f"the dispersed phase is {fraction * 100:.1f} % of the emulsion ({basis}), "
+                   f"below the {core_findings.MAX_PACKING_FRACTION * 100:.1f} % uniform spheres can fill",
+                   "subject": "dispersed_phase"})
     warnings = c.warnings + finding_warnings(core_findings.ionic_findings([r.item.ionic_class for r in c.rows if r.role == "emulsifier"]))
     warnings += finding_warnings(f for f in phase if f is not packing)
     warnings += apparent_hlb_warning(r.item.label for r in c.rows if r.item.hlb_is_apparent)

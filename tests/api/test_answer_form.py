@@ -1,0 +1,121 @@
+"""Answers are sent as the use cases build them: compact JSON by default,
+indented on request (`indent`), problems alike; every operation's 200 answer
+is checked against its published schema through the answer-checking client
+(tests/api/conftest.py), since no dump checks it per request; and the
+envelope's one pass tidies floats and refuses non-finite numbers as the
+separate passes did. The layouts compared against are those the standard
+library's json module writes (Python documentation, json.dumps)."""
+from __future__ import annotations
+
+import json
+import math
+
+import pytest
+
+from service.core.errors import CalculationError
+from service.http.spec import build_spec
+from service.usecases import answers
+from service.usecases.methods import BLEND_HLB
+from tests.api.conftest import AnswerCheckingClient
+
+BLEND = {"components": [{"ingredient": "sorbitan-monooleate", "amount": {"value": 3.64, "unit": "g"}},
+                        {"ingredient": "polysorbate-80", "amount": {"value": 6.36, "unit": "g"}}]}
+
+
+def _compact(obj) -> str:
+    return json.dumps(obj, separators=(",", ":"), ensure_ascii=False) + "\n"
+
+
+def _requests(spec: dict):
+    """(method, path, body) for every operation with a JSON 200 answer, from
+    the spec's own request and path examples."""
+    for path, operations in spec["paths"].items():
+        for method, operation in operations.items():
+            if "application/json" not in operation["responses"].get("200", {}).get("content", {}):
+                continue
+            for p in operation["parameters"]:
+                if p["in"] == "path":
+                    path = path.replace("{" + p["name"] + "}", p["example"])
+            examples = operation.get("requestBody", {}).get("content", {}).get("application/json", {}).get("examples")
+            yield operation["operationId"], method.upper(), path, next(iter(examples.values()))["value"] if examples else None
+
+
+def test_every_operation_answer_is_checked_against_its_schema(client):
+    assert isinstance(client, AnswerCheckingClient)
+    seen = []
+    for op_id, method, path, body in _requests(build_spec()):
+        response = client.open(path, method=method, json=body)
+        assert response.status_code == 200, (op_id, response.get_data(as_text=True)[:300])
+        seen.append(op_id)
+    assert len(seen) >= 20
+
+
+def test_answers_are_compact_by_default(client):
+    response = client.post("/v1/blends/hlb", json=BLEND)
+    assert response.status_code == 200
+    assert response.get_data(as_text=True) == _compact(response.get_json())
+
+
+@pytest.mark.parametrize("indent", [1, 2, 4, 8])
+def test_an_indented_answer_on_request(client, indent):
+    compact = client.post("/v1/blends/hlb", json=BLEND).get_json()
+    response = client.post(f"/v1/blends/hlb?indent={indent}", json=BLEND)
+    assert response.status_code == 200
+    assert response.get_json() == compact
+    assert response.get_data(as_text=True) == json.dumps(compact, indent=indent, ensure_ascii=False) + "\n"
+
+
+def test_indent_zero_is_compact_and_a_get_query_ignores_it(client):
+    response = client.get("/v1/ingredients?indent=0&role=surfactant")
+    assert response.status_code == 200
+    assert response.get_data(as_text=True) == _compact(response.get_json())
+    assert client.get("/v1/ingredients?indent=2&role=surfactant").get_json() == response.get_json()
+
+
+def test_problems_are_compact_or_indented_alike(client):
+    bad = {"components": []}
+    response = client.post("/v1/blends/hlb", json=bad)
+    assert response.status_code == 422 and response.mimetype == "application/problem+json"
+    assert response.get_data(as_text=True) == _compact(response.get_json())
+    indented = client.post("/v1/blends/hlb?indent=2", json=bad)
+    assert indented.get_data(as_text=True) == json.dumps(indented.get_json(), indent=2, ensure_ascii=False) + "\n"
+
+
+@pytest.mark.parametrize("value", ["9", "-1", "x", "2.0", "", "\u0663", "10"])
+def test_a_bad_indent_is_refused_naming_it(client, value):
+    response = client.get("/healthz", query_string={"indent": value})
+    assert response.status_code == 422
+    body = response.get_json()
+    assert [e["parameter"] for e in body["errors"]] == ["indent"]
+    # The refusal itself is compact: the indent asked for was not valid.
+    assert response.get_data(as_text=True) == _compact(body)
+
+
+def test_indent_given_twice_is_refused(client):
+    response = client.get("/healthz?indent=1&indent=2")
+    assert response.status_code == 422 and response.get_json()["errors"][0]["parameter"] == "indent"
+
+
+def test_every_operation_declares_indent():
+    spec = build_spec()
+    for path, operations in spec["paths"].items():
+        for method, operation in operations.items():
+            names = [p["name"] for p in operation["parameters"] if p["in"] == "query" and "name" in p]
+            assert "indent" in names, (method, path)
+            assert "422" in operation["responses"], (method, path)
+
+
+NESTED = {"a": 3.2352941176470584, "b": [11.600000000000001, {"c": 1e-12 / 3, "d": (0.1 + 0.2, 2)}], "e": "x", "f": None, "g": True, "h": 7}
+
+
+def test_the_one_pass_tidies_as_tidy_does():
+    assert answers._final(NESTED) == answers.tidy(NESTED)
+    assert json.dumps(answers._final(NESTED)) == json.dumps(answers.tidy(NESTED))
+
+
+@pytest.mark.parametrize("bad", [math.inf, -math.inf, math.nan])
+def test_the_one_pass_refuses_a_non_finite_result_naming_where(registry, bad):
+    result = {"rows": [{"mass_g": 1.0}, {"mass_g": bad}]}
+    with pytest.raises(CalculationError) as caught:
+        answers.envelope(result, {}, BLEND_HLB, [], [], registry)
+    assert caught.value.rule == "finite_result" and "result/rows/1/mass_g" in caught.value.message
