@@ -6,6 +6,7 @@ their sources in tests/core and tests/api."""
 from __future__ import annotations
 
 import dataclasses
+import json
 import logging
 
 import pytest
@@ -148,8 +149,8 @@ def test_a_fault_of_the_service_in_one_item_fails_that_item_alone(client, monkey
 
 def test_the_body_size_limit_still_applies(client, app):
     limit = app.config["MAX_BODY_BYTES"]
-    padded = {"items": [{"operation": "blendHlb", "body": {**BLEND, "emulsion_type": "O/W"}}], "strict": False}
-    raw = str(padded).replace("'", '"').replace("False", "false").encode()
+    raw = json.dumps({"items": [{"operation": "blendHlb", "body": BLEND}]}).encode()
+    # Well-formed JSON, one byte over the limit by its whitespace.
     raw = raw[:-1] + b" " * (limit + 1 - len(raw)) + b"}"
     response = client.post("/v1/batch", data=raw, content_type="application/json")
     assert response.status_code == 413
