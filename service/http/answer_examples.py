@@ -20,6 +20,7 @@ POST_PATHS = {
     "requiredHlbSeriesEvaluate": "/v1/required-hlb-series/evaluate",
     "soapInPlace": "/v1/soaps/in-place", "gumEmulsion": "/v1/gum-emulsions",
     "solveBlend": "/v1/blends/solve", "emulsifierInterfaceEstimate": "/v1/emulsifier/interface-estimate",
+    "batch": "/v1/batch",
 }
 # Operations whose example is also recorded as the Markdown worksheet.
 MARKDOWN = ("createWorksheet", "checkAmountsTaken", "createCompoundingRecord")

@@ -25,6 +25,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     from service.http.jsonio import StrictJSONProvider
     from service.http.spec import build_spec, spec_json
     from service.http.blueprints import soap_views
+    from service.http.blueprints import batch_views
 
     settings = Settings.from_env()
     if config:
@@ -53,6 +54,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     for module in (calculation_views, worksheet_views, record_views, estimate_views, ingredient_views, meta_views):
         app.register_blueprint(module.bp)
     app.register_blueprint(soap_views.bp)
+    app.register_blueprint(batch_views.bp)
     if settings.benchmark:
         from service.http.blueprints import benchmark_views
 

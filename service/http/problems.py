@@ -99,11 +99,42 @@ def _capped(errors: list) -> dict:
     return {"errors": errors[:MAX_ERRORS], "errors_total": len(errors), "errors_omitted": len(errors) - MAX_ERRORS}
 
 
-def problem_response(status: int, title: str, detail: str, *, type_: str = "about:blank", errors=None, headers=None, **extra) -> Response:
+def problem_body(status: int, title: str, detail: str, *, type_: str = "about:blank", errors=None, **extra) -> dict:
+    """The problem's members, as a plain dict."""
     body = {"type": type_, "title": title, "status": status, "detail": detail}
     if errors is not None:
         body.update(_capped(errors))
     body.update(extra)
+    return body
+
+
+def refusal_body(exc: Exception) -> dict | None:
+    """The problem a refusal of the request (a domain error, a schema's
+    ValidationError, an ApiProblem) is answered with, as a plain dict; None
+    for any other exception. The one mapping of the handlers below and of a
+    batch's items."""
+    if isinstance(exc, ApiProblem):
+        return problem_body(exc.status, exc.title, exc.detail, type_=exc.type, errors=exc.errors, **exc.extra)
+    if isinstance(exc, ValidationError):
+        return refusal_body(validation_problem(exc.messages))
+    if isinstance(exc, CalculationError):
+        # Core paths are relative to the request body, so they are pointers as they stand.
+        errors = [{"pointer": pointer(exc.path), "rule": exc.rule, "detail": exc.message, **exc.extra}]
+        return problem_body(422, "Calculation refused", exc.message, type_=TYPE_CALCULATION, errors=errors)
+    if isinstance(exc, InvalidInput):
+        return problem_body(422, "Invalid input", exc.detail, type_=TYPE_INVALID_INPUT, errors=exc.faults)
+    if isinstance(exc, UnverifiedValuesRefused):
+        return problem_body(422, "Unverified values refused", exc.detail, type_=TYPE_CALCULATION, errors=exc.faults)
+    return None
+
+
+def encodable_problem(body: dict) -> dict:
+    """The problem with every string made printable (see _encodable)."""
+    return _encodable(body)
+
+
+def problem_response(status: int, title: str, detail: str, *, type_: str = "about:blank", errors=None, headers=None, **extra) -> Response:
+    body = problem_body(status, title, detail, type_=type_, errors=errors, **extra)
     # The id the caller can quote, the same as in the X-Request-ID header and the log lines.
     indent = 0
     if has_request_context():
@@ -135,29 +166,15 @@ def validation_problem(messages, *, location: str = "body") -> ApiProblem:
 
 
 def register_error_handlers(app: Flask) -> None:
+    # The request's refusals, and the domain's, each as the one problem the docs page describes.
     @app.errorhandler(ApiProblem)
-    def _api_problem(exc: ApiProblem):
-        return problem_response(exc.status, exc.title, exc.detail, type_=exc.type, errors=exc.errors, headers=exc.headers, **exc.extra)
-
     @app.errorhandler(ValidationError)
-    def _validation(exc: ValidationError):
-        p = validation_problem(exc.messages)
-        return _api_problem(p)
-
     @app.errorhandler(CalculationError)
-    def _calculation(exc: CalculationError):
-        # Core paths are relative to the request body, so they are pointers as they stand.
-        errors = [{"pointer": pointer(exc.path), "rule": exc.rule, "detail": exc.message, **exc.extra}]
-        return problem_response(422, "Calculation refused", exc.message, type_=TYPE_CALCULATION, errors=errors)
-
-    # The domain's refusals, each as the one problem the docs page describes.
     @app.errorhandler(InvalidInput)
-    def _invalid_input(exc: InvalidInput):
-        return problem_response(422, "Invalid input", exc.detail, type_=TYPE_INVALID_INPUT, errors=exc.faults)
-
     @app.errorhandler(UnverifiedValuesRefused)
-    def _unverified(exc: UnverifiedValuesRefused):
-        return problem_response(422, "Unverified values refused", exc.detail, type_=TYPE_CALCULATION, errors=exc.faults)
+    def _refused(exc: Exception):
+        body = refusal_body(exc)
+        return problem_response(**_as_arguments(body), headers=getattr(exc, "headers", None))
 
     @app.errorhandler(HTTPException)
     def _http(exc: HTTPException):
@@ -166,9 +183,22 @@ def register_error_handlers(app: Flask) -> None:
 
     @app.errorhandler(Exception)
     def _unexpected(exc: Exception):
-        error_id = uuid.uuid4().hex
-        log.exception("unhandled error %s", error_id, extra={"error_id": error_id})
-        detail = f"an internal error occurred; quote error id {error_id} when reporting it"
-        if app.debug:
-            detail += f" ({type(exc).__name__}: {exc})"
-        return problem_response(500, "Internal Server Error", detail, error_id=error_id)
+        return problem_response(**_as_arguments(internal_error_body(exc, debug=app.debug)))
+
+
+def _as_arguments(body: dict) -> dict:
+    """A problem body as problem_response's arguments."""
+    out = dict(body)
+    out["type_"] = out.pop("type")
+    return out
+
+
+def internal_error_body(exc: Exception, *, debug: bool = False) -> dict:
+    """The problem of a fault of ours: logged with its traceback under an id
+    the problem gives, for the caller to quote; its detail only in debug."""
+    error_id = uuid.uuid4().hex
+    log.exception("unhandled error %s", error_id, extra={"error_id": error_id}, exc_info=exc)
+    detail = f"an internal error occurred; quote error id {error_id} when reporting it"
+    if debug:
+        detail += f" ({type(exc).__name__}: {exc})"
+    return problem_body(500, "Internal Server Error", detail, error_id=error_id)

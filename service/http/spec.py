@@ -20,7 +20,7 @@ from service.http.schemas import calculation_requests as calculations, estimate_
 from service.http.schemas import soap_bodies as soap_schemas
 from service.http.schemas import amounts_taken_bodies as taken, record_bodies as records, responses as answers, worksheet_bodies as worksheets
 from service.http.schemas.fields import Boolean, Number, QueryNumber
-from service.http.schemas import blend_bodies, interface_bodies
+from service.http.schemas import batch_bodies, blend_bodies, interface_bodies
 from service.http.schemas.enums import publish as publish_enums
 from service.http.schemas.rules import RuleChecks, published
 from service.http.jsonio import INDENT_PARAMETER as INDENT_PARAMETER_NAME, MAX_INDENT
@@ -172,6 +172,14 @@ OPERATIONS = [
      "practice formula's minimum (as POST /v1/emulsifier/minimum) for the same emulsion is given beside it, each with its assumptions. "
      "Areas per molecule, molar masses and CMCs come from the registry or the request.",
      interface_bodies.InterfaceEstimateRequestSchema, None, interface_bodies.InterfaceEstimateAnswerSchema, BODY_ERRORS, "calculations"),
+    ("/v1/batch", "post", "batch", "Many calculations in one request",
+     f"Up to {batch_bodies.MAX_ITEMS} calculations of any of the JSON operations (BatchOperation: each item its `operation`, an operationId, "
+     "and the `body` its own request would send; the body size limit still applies), answered in order: each item its answer, or the "
+     "problem its own request would have had (pointers relative to the item's body, and its status), none failing the others. The "
+     "registry version, the cautions every answer carries, and the sources and values used are listed once for the batch; each item's "
+     "answer refers to them by id. The batch is answered 200 whenever it is well formed; an unknown or unbatchable operation (a text, "
+     "PDF or SVG form, a registry resource) is a 422 naming the item's pointer. `strict` applies to every item. Answers are compact JSON.",
+     batch_bodies.BatchRequestSchema, None, batch_bodies.BatchAnswerSchema, BODY_ERRORS, "calculations"),
 ]
 
 # Every answer carries the request's id; a caller may choose it.
@@ -261,6 +269,7 @@ def build_spec() -> dict:
     document = spec.to_dict()
     _query_examples(document)
     _publish_rules(document["components"]["schemas"])
+    document["components"]["schemas"]["BatchItemAnswer"]["oneOf"] = batch_bodies.ITEM_ONE_OF
     publish_enums(document)
     _open_answers(document)
     return document

@@ -238,3 +238,18 @@ EXAMPLES["emulsifierInterfaceEstimate"] = {
         },
     },
 }
+
+# A batch of our own: the lotion's two blend HLBs, its oil phase's required
+# HLB, and a pair asked for an HLB it cannot reach (that item alone refused).
+EXAMPLES["batch"] = {
+    "lotion_checks": {
+        "summary": "Two blend HLBs, a required HLB, and a refused pair, in one request",
+        "value": {"items": [
+            {"operation": "blendHlb", "body": copy.deepcopy(EXAMPLES["blendHlb"]["by_mass"]["value"])},
+            {"operation": "blendHlb", "body": copy.deepcopy(EXAMPLES["blendHlb"]["by_volume"]["value"])},
+            {"operation": "oilPhaseRequiredHlb", "body": copy.deepcopy(EXAMPLES["oilPhaseRequiredHlb"]["lotion"]["value"])},
+            {"operation": "blendProportions", "body": {"target_hlb": 17.5, "pair": [{"ingredient": "sorbitan-monostearate"},
+                                                                                     {"ingredient": "polysorbate-60"}]}},
+        ]},
+    },
+}

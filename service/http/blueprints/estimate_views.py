@@ -2,46 +2,37 @@
 read-back also as an SVG plot), and the Davies group table, under /v1."""
 from __future__ import annotations
 
-from flask import Blueprint, Response
+from flask import Blueprint, Response, current_app
 
-from service.usecases import hlb_estimates, hlb_series, series_picture
+from service.usecases import series_picture
 from service.usecases.answers import registry_version
-from service.http.blueprints.calculation_views import _registry, _strict
+from service.http.blueprints.calculation_views import _registry, answered
 from service.http.blueprints.worksheet_views import negotiated
 from service.http.bodies import answer, load_body
+from service.http.operations import CALCULATIONS
 from service.http.series_svg import series_svg
 from service.http.schemas import estimate_bodies as schemas
 
 bp = Blueprint("estimates", __name__, url_prefix="/v1")
 
-EST_IN, EST_OUT = schemas.HlbEstimateRequestSchema(), schemas.HlbEstimateAnswerSchema()
-PLAN_IN, PLAN_OUT = schemas.SeriesPlanRequestSchema(), schemas.SeriesPlanAnswerSchema()
-EVAL_IN, EVAL_OUT = schemas.SeriesEvaluateRequestSchema(), schemas.SeriesEvaluateAnswerSchema()
+EVALUATE = CALCULATIONS["requiredHlbSeriesEvaluate"]
 GROUPS_OUT = schemas.DaviesGroupListSchema()
 # The series' read-back is JSON, or a plot of it.
 EVAL_OFFERED = ["application/json", "image/svg+xml"]
 
 
-@bp.post("/hlb-estimates")
-def hlb_estimate():
-    data = load_body(EST_IN)
-    return answer(EST_OUT, hlb_estimates.estimate(data, _registry(), _strict(data)))
-
-
-@bp.post("/required-hlb-series/plan")
-def series_plan():
-    data = load_body(PLAN_IN)
-    return answer(PLAN_OUT, hlb_series.plan(data, _registry(), _strict(data)))
+bp.add_url_rule("/hlb-estimates", "hlb_estimate", answered("hlbEstimate"), methods=["POST"])
+bp.add_url_rule("/required-hlb-series/plan", "series_plan", answered("requiredHlbSeriesPlan"), methods=["POST"])
 
 
 @bp.post("/required-hlb-series/evaluate")
 def series_evaluate():
     media = negotiated(EVAL_OFFERED)
-    data = load_body(EVAL_IN)
-    payload = hlb_series.evaluate(data, _registry(), _strict(data))
+    data = load_body(EVALUATE.request)
+    payload = EVALUATE.run(data, _registry(), current_app.config["STRICT"])
     if media == "image/svg+xml":
         return Response(series_svg(series_picture.picture(data, payload)), mimetype=media)
-    return answer(EVAL_OUT, payload)
+    return answer(EVALUATE.answer, payload)
 
 
 @bp.get("/davies-groups")

@@ -4,25 +4,24 @@ from __future__ import annotations
 
 from flask import Blueprint, Response
 
-from service.usecases import compounding_record
-from service.http.blueprints.calculation_views import _registry, _strict
+from service.http.blueprints.calculation_views import payload_of
 from service.http.blueprints.worksheet_views import negotiated
-from service.http.bodies import answer, load_body
+from service.http.bodies import answer
+from service.http.operations import CALCULATIONS
 from service.http.record_pdf import record_pdf
 from service.http.record_text import record_text
-from service.http.schemas import record_bodies as schemas
 
 bp = Blueprint("records", __name__, url_prefix="/v1")
 
-RECORD_IN, RECORD_OUT = schemas.RecordRequestSchema(), schemas.RecordAnswerSchema()
+RECORD = CALCULATIONS["createCompoundingRecord"]
+RECORD_OUT = RECORD.answer
 OFFERED = ["application/json", "text/markdown", "text/plain", "application/pdf"]
 
 
 @bp.post("/compounding-records")
 def create_record():
     media = negotiated(OFFERED)
-    data = load_body(RECORD_IN)
-    payload = compounding_record.record(data, _registry(), _strict(data))
+    payload = payload_of(RECORD)
     if media == "application/json":
         return answer(RECORD_OUT, payload)
     dumped = RECORD_OUT.dump(payload)

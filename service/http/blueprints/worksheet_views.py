@@ -5,19 +5,16 @@ from __future__ import annotations
 
 from flask import Blueprint, Response, request
 
-from service.usecases import amounts_taken, pairs, worksheet
-from service.http.blueprints.calculation_views import _registry, _strict
-from service.http.bodies import answer, load_body
+from service.http.blueprints.calculation_views import answered, payload_of
+from service.http.bodies import answer
+from service.http.operations import CALCULATIONS
 from service.http.problems import ApiProblem
 from service.http.taken_text import taken_text
 from service.http.worksheet_text import worksheet_text
-from service.http.schemas import amounts_taken_bodies, worksheet_bodies as schemas
 
 bp = Blueprint("worksheets", __name__, url_prefix="/v1")
 
-SHEET_IN, RESCALE_IN, SHEET_OUT = schemas.WorksheetRequestSchema(), schemas.RescaleRequestSchema(), schemas.WorksheetAnswerSchema()
-TAKEN_IN, TAKEN_OUT = amounts_taken_bodies.AmountsTakenRequestSchema(), amounts_taken_bodies.AmountsTakenAnswerSchema()
-PAIRS_IN, PAIRS_OUT = schemas.CandidateRequestSchema(), schemas.CandidateAnswerSchema()
+SHEET, RESCALE, TAKEN = (CALCULATIONS[op] for op in ("createWorksheet", "rescaleWorksheet", "checkAmountsTaken"))
 OFFERED = ["application/json", "text/markdown", "text/plain"]
 
 
@@ -38,32 +35,22 @@ def _as(schema, render, payload: dict, media: str) -> Response:
     return Response(render(schema.dump(payload), markdown=media == "text/markdown"), mimetype=media)
 
 
-def _sheet(payload: dict, media: str) -> Response:
-    return _as(SHEET_OUT, worksheet_text, payload, media)
-
-
 @bp.post("/worksheets")
 def create_worksheet():
     media = negotiated()
-    data = load_body(SHEET_IN)
-    return _sheet(worksheet.worksheet(data, _registry(), _strict(data)), media)
+    return _as(SHEET.answer, worksheet_text, payload_of(SHEET), media)
 
 
 @bp.post("/worksheets/rescale")
 def rescale_worksheet():
     media = negotiated()
-    data = load_body(RESCALE_IN)
-    return _sheet(worksheet.rescale(data, _registry(), _strict(data["worksheet"])), media)
+    return _as(RESCALE.answer, worksheet_text, payload_of(RESCALE), media)
 
 
 @bp.post("/worksheets/amounts-taken")
 def check_amounts_taken():
     media = negotiated()
-    data = load_body(TAKEN_IN)
-    return _as(TAKEN_OUT, taken_text, amounts_taken.amounts_taken(data, _registry(), _strict(data["worksheet"])), media)
+    return _as(TAKEN.answer, taken_text, payload_of(TAKEN), media)
 
 
-@bp.post("/candidate-pairs")
-def candidate_pairs():
-    data = load_body(PAIRS_IN)
-    return answer(PAIRS_OUT, pairs.candidates(data, _registry(), _strict(data)))
+bp.add_url_rule("/candidate-pairs", "candidate_pairs", answered("candidatePairs"), methods=["POST"])

@@ -53,6 +53,11 @@ SCHEMA_RULES = {
     "schema": "Another rule of the schema.",
 }
 
+# The operations a batch may hold (operationIds, service/http/spec.py).
+BATCH_OPERATIONS = ("blendHlb", "blendProportions", "oilPhaseRequiredHlb", "emulsifierMinimum", "emulsifierInterfaceEstimate", "solveBlend",
+                    "createWorksheet", "rescaleWorksheet", "checkAmountsTaken", "createCompoundingRecord", "candidatePairs", "hlbEstimate",
+                    "requiredHlbSeriesPlan", "requiredHlbSeriesEvaluate", "soapInPlace", "gumEmulsion")
+
 
 @dataclass(frozen=True)
 class Enum:
@@ -91,6 +96,9 @@ ENUMS = {
                      "The rule a problem item names: a rule of the request's schema, or a refusal of the calculation.", None,
                      {**SCHEMA_RULES, **codes.REFUSALS}),
     "HeatingSetBy": Enum(tuple(SET_BY), "What set the processing temperature.", None, SET_BY),
+    # Checked against service/http/operations.py's table by tests/api/test_batch.py.
+    "BatchOperation": Enum(BATCH_OPERATIONS, "A calculation a batch may hold, by its operationId: the JSON calculations. Their text, PDF "
+                           "and SVG forms, the registry's resources and the probes are not batchable."),
     "BlendObjective": Enum(("most_even", "least_ionic"), "How a blend's shares are chosen among the many that reach the target.", None, {
         "most_even": "The shares nearest to equal shares (least sum of squared deviations).",
         "least_ionic": "The least total share of ionic members; ties broken by most_even."}),
