@@ -39,11 +39,21 @@ def _imbalance(target: float, low: float, high: float) -> float:
 class _Sorted:
     """Surfactants sorted by (HLB, id), with their HLBs for bisection."""
 
-    __slots__ = ("items", "hlbs")
+    __slots__ = ("items", "hlbs", "_above")
 
     def __init__(self, items: Sequence[Surfactant]):
         self.items = sorted(items, key=lambda s: (s.hlb, s.id))
         self.hlbs = [s.hlb for s in self.items]
+        self._above: tuple[float, list[Surfactant]] | None = None
+
+    def above_by_id(self, target: float) -> list[Surfactant]:
+        """The members above the target, by id: the high members, all at
+        imbalance 0.5, of every low member whose HLB is the target. Kept for
+        the last target, so that many such low members sort them once."""
+        memo = self._above
+        if memo is None or memo[0] != target:
+            memo = self._above = (target, sorted(self.items[self.at_most(target):], key=lambda s: s.id))
+        return memo[1]
 
     def below(self, target: float) -> int:
         return bisect_left(self.hlbs, target)
@@ -64,9 +74,13 @@ def _crossing(lows: _Sorted, highs: _Sorted, target: float) -> int:
 def _outward(low: Surfactant, highs: _Sorted, target: float, skip_chain: str | None) -> Iterator[tuple[float, str, Surfactant]]:
     """The high members for `low` (HLB at or above the target and above the
     low member's), in (imbalance, id) order; members of `skip_chain` left out."""
-    items, t, lh = highs.items, target, low.hlb
-    start = highs.at_most(lh) if lh >= t else highs.below(t)
-    end = len(items)
+    items, hlbs, t, lh = highs.items, highs.hlbs, target, low.hlb
+    if lh == t:  # every share is 0: one group, ordered by id alone
+        for s in highs.above_by_id(t):
+            if skip_chain is None or s.fatty_chain != skip_chain:
+                yield 0.5, s.id, s
+        return
+    start, end = highs.below(t), len(items)
     # First index whose share is at most 0.5 (the share falls as h rises).
     a, b = start, end
     while a < b:
@@ -78,21 +92,25 @@ def _outward(low: Surfactant, highs: _Sorted, target: float, skip_chain: str | N
     left, right = a - 1, a  # left walks down to start, right up to end
 
     def imb(i: int) -> float:
-        return _imbalance(t, lh, items[i].hlb)
+        return _imbalance(t, lh, hlbs[i])
 
     while left >= start or right < end:
-        li = imb(left) if left >= start else None
-        ri = imb(right) if right < end else None
-        value = min(v for v in (li, ri) if v is not None)
-        group = []
-        # Members of equal imbalance lie next to each other on each side.
+        value = min(imb(left) if left >= start else 1.0, imb(right) if right < end else 1.0)
+        # A group of equal imbalance is made of runs of equal HLB (each in id
+        # order already): one run, or one each side; more only where floats
+        # round two HLBs to one imbalance.
+        runs = []
         while left >= start and imb(left) == value:
-            group.append(items[left])
-            left -= 1
+            first = bisect_left(hlbs, hlbs[left], start, left + 1)
+            runs.append(range(first, left + 1))
+            left = first - 1
         while right < end and imb(right) == value:
-            group.append(items[right])
-            right += 1
-        for s in sorted(group, key=lambda s: s.id):
+            past = bisect_right(hlbs, hlbs[right], right, end)
+            runs.append(range(right, past))
+            right = past
+        group = (items[i] for i in runs[0]) if len(runs) == 1 else \
+            heapq.merge(*[(items[i] for i in r) for r in runs], key=lambda s: s.id)
+        for s in group:
             if skip_chain is None or s.fatty_chain != skip_chain:
                 yield value, s.id, s
 

@@ -104,11 +104,18 @@ def candidates(data: dict, registry: Registry, strict: bool = False) -> dict:
     considered = index.count(target)
     chosen = index.ranked(target, chain, limit)
     singles = single_surfactants(target, surfactants)
+    # Each HLB once, in order of first use. The keys seen are kept in a set:
+    # the single surfactants grow with the registry, and ValuesUsed.add's own
+    # key check looks through every value already listed.
+    seen = {(v.ingredient, v.property) for v in values_used}
     for s in [m for pair in chosen for m in (pair.low, pair.high)] + singles:
+        if (s.id, "hlb") in seen:
+            continue
         item = Resolved(s.id, registry.get(s.id).name, s.ionic_class, None, False, registry.get(s.id), path=("candidates",))
         found = scalar_value(item, "hlb", "hlb", registry)
-        if found:
-            values_used.add(found[1], key=lambda v: (v.ingredient, v.property))
+        if found and (found[1].ingredient, found[1].property) not in seen:
+            seen.add((found[1].ingredient, found[1].property))
+            values_used.add(found[1])
     if off_scale:
         members = {s.id: s for p in chosen for s in (p.low, p.high)}
         warnings += finding_warnings(off_scale_findings([(m.id, m.hlb, m.ionic_class) for m in members.values()]))

@@ -135,3 +135,15 @@ def test_small_registries_with_many_ties(pool, target, chain, limit):
     expected = reference_pairs(target, pool, chain)
     assert candidate_pairs(target, pool, chain, limit) == (expected if limit is None else expected[:limit])
     assert PairIndex(pool).count(target) == len(expected)
+
+
+def test_answer_lists_each_hlb_once_in_order_of_first_use(registry):
+    from service.usecases.pairs import candidates
+    answer = candidates({"target_hlb": 10.0, "limit": 20, "ionic_classes": ["nonionic", "anionic"]}, registry)
+    result = answer["result"]
+    members = [m["ingredient"] for c in result["candidates"] for m in (c["low"], c["high"])]
+    members += [s["ingredient"] for s in result["single_surfactants"]]
+    first_use = list(dict.fromkeys(members))
+    listed = [(v["ingredient"], v["property"]) for v in answer["values_used"]]
+    assert listed == [(i, "hlb") for i in first_use]
+    assert result["considered"] == len(reference_pairs(10.0, registry_surfactants(registry, ("nonionic", "anionic"), False)))
