@@ -3,6 +3,7 @@ phase."""
 from __future__ import annotations
 
 import weakref
+from collections import OrderedDict
 
 from registry import Registry
 from service.usecases import methods
@@ -21,13 +22,13 @@ DEFAULT_LIMIT = 10
 
 def registry_surfactants(registry: Registry, ionic_classes, strict: bool, off_scale: bool = False) -> list[Surfactant]:
     """Current emulsifying agents (by their recorded functions) with an HLB,
-    of the ionic classes allowed; no hydrocolloids (apparent HLB only); none
+    of the ionic classes allowed (all when None); no hydrocolloids (apparent HLB only); none
     above Griffin's 0 to 20 scale unless `off_scale`; in strict mode,
     verified HLBs only."""
     out = []
     for ing in registry.ingredients.values():
         if (ing.retired or "surfactant" not in ing.roles or "emulsifier" not in ing.functions or ing.hlb_is_apparent
-                or ing.ionic_class not in ionic_classes):
+                or (ionic_classes is not None and ing.ionic_class not in ionic_classes)):
             continue
         record = ing.preferred("hlb")
         if record is None or (strict and not record.is_verified) or (record.figure > GRIFFIN_SCALE_MAX and not off_scale):
@@ -55,21 +56,34 @@ def oil_chain(registry: Registry, oil_shares: list[tuple[str | None, float]]) ->
 # Per registry (by identity: a Registry is frozen but holds mappings, so it
 # cannot be hashed) and per filter, the surfactants and their pair index,
 # built on first use so that a request sorts nothing. An entry goes with its
-# registry.
-_INDEXES: dict[int, tuple[weakref.ref, dict]] = {}
+# registry. The surfactants of every ionic class are listed once per
+# (strict, off_scale) and each ionic filter keeps its own from them, so that
+# the filters share their Surfactant objects; the least recently used
+# filters beyond MAX_FILTERS are dropped, to bound a worker's memory.
+MAX_FILTERS = 32
+_INDEXES: dict[int, tuple[weakref.ref, OrderedDict]] = {}
 
 
 def surfactant_index(registry: Registry, ionic_classes, strict: bool, off_scale: bool = False) -> tuple[list[Surfactant], PairIndex]:
     """The surfactants registry_surfactants() gives, and their PairIndex, made once."""
     entry = _INDEXES.get(id(registry))
     if entry is None or entry[0]() is not registry:
-        entry = (weakref.ref(registry, lambda _, key=id(registry): _INDEXES.pop(key, None)), {})
+        entry = (weakref.ref(registry, lambda _, key=id(registry): _INDEXES.pop(key, None)), OrderedDict())
         _INDEXES[id(registry)] = entry
-    key = (tuple(sorted(set(ionic_classes))), bool(strict), bool(off_scale))
-    found = entry[1].get(key)
+    cache = entry[1]
+    classes = frozenset(ionic_classes)
+    key = (classes, bool(strict), bool(off_scale))
+    found = cache.get(key)
     if found is None:
-        surfactants = registry_surfactants(registry, ionic_classes, strict, off_scale)
-        found = entry[1][key] = (surfactants, PairIndex(surfactants))
+        every = cache.get((None, bool(strict), bool(off_scale)))
+        if every is None:
+            every = cache[(None, bool(strict), bool(off_scale))] = registry_surfactants(registry, None, strict, off_scale)
+        surfactants = [s for s in every if s.ionic_class in classes]
+        found = cache[key] = (surfactants, PairIndex(surfactants))
+        while len(cache) > MAX_FILTERS:
+            cache.popitem(last=False)
+    else:
+        cache.move_to_end(key)
     return found
 
 

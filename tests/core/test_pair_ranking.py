@@ -147,3 +147,13 @@ def test_answer_lists_each_hlb_once_in_order_of_first_use(registry):
     listed = [(v["ingredient"], v["property"]) for v in answer["values_used"]]
     assert listed == [(i, "hlb") for i in first_use]
     assert result["considered"] == len(reference_pairs(10.0, registry_surfactants(registry, ("nonionic", "anionic"), False)))
+
+
+def test_the_cache_is_bounded_and_each_filter_keeps_its_own(registry):
+    from itertools import chain as joined
+    from service.usecases import pairs as usecase
+    filters = [c for r in range(1, 6) for c in combinations(IONIC_CLASSES, r)]  # 31 ionic filters
+    for strict, classes in joined(((False, c) for c in filters), ((True, c) for c in filters)):
+        surfactants, index = surfactant_index(registry, classes, strict)
+        assert surfactants == registry_surfactants(registry, classes, strict)
+        assert len(usecase._INDEXES[id(registry)][1]) <= usecase.MAX_FILTERS
