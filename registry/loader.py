@@ -90,9 +90,12 @@ class _Builder:
         if shipped is not None:
             self.shadowed[iid] = shipped
             self.collisions.append(OverlayCollision("id", iid, "id", iid, file, iid, self.files[iid]))
-            # The shipped record is set aside, and its names with it.
-            for key in [k for k, v in self.names.items() if v == iid]:
-                del self.names[key]
+            # The shipped record is set aside, and its names with it (those
+            # still its own): looked up by label, not by a scan of every name,
+            # so that an overlay of many records costs no more than its size.
+            for label in [shipped.name, *shipped.synonyms]:
+                if self.names.get(label.casefold()) == iid:
+                    del self.names[label.casefold()]
         if record.retired:
             # A retired site record gives its shared names back: lookups never
             # offer a retired record, so they would find nothing by them.

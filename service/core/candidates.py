@@ -4,11 +4,12 @@ The rule (common practice, no source): pairs of one fatty-chain family first
 (e.g. a sorbitan stearate with a polyoxyethylene sorbitan stearate), then
 balanced proportions (shares near 50 : 50, in steps of 10 %), then nonionic
 pairs before pairs with an ionic member. Anionic with cationic is never
-proposed; hydrocolloids (apparent HLB only) are left out by the caller."""
+proposed; hydrocolloids (apparent HLB only) are left out by the caller.
+The ranking itself, which finds the first pairs without listing them all, is
+in pair_ranking."""
 from __future__ import annotations
 
 from dataclasses import dataclass
-from itertools import combinations
 from typing import Sequence
 
 RULE = ("with an oil phase whose fatty chain the registry knows, pairs of that chain first; then one fatty-chain family; "
@@ -57,17 +58,3 @@ def single_surfactants(target_hlb: float, surfactants: Sequence[Surfactant]) -> 
     SINGLE_TOLERANCE_HLB), nearest first."""
     near = [s for s in surfactants if abs(s.hlb - target_hlb) <= SINGLE_TOLERANCE_HLB + 1e-9]
     return sorted(near, key=lambda s: (abs(s.hlb - target_hlb), s.ionic_class != "nonionic", s.id))
-
-
-def candidate_pairs(target_hlb: float, surfactants: Sequence[Surfactant], oil_chain: str | None = None) -> list[Pair]:
-    """Every pair with one HLB below and one above the target (or equal to
-    it), ranked by RULE; `oil_chain` is the oil phase's fatty chain."""
-    pairs = []
-    for a, b in combinations(surfactants, 2):
-        low, high = (a, b) if a.hlb <= b.hlb else (b, a)
-        if low.hlb == high.hlb or not low.hlb <= target_hlb <= high.hlb:
-            continue
-        if {low.ionic_class, high.ionic_class} == {"anionic", "cationic"}:
-            continue
-        pairs.append(Pair(low, high, (target_hlb - low.hlb) / (high.hlb - low.hlb), oil_chain))
-    return sorted(pairs, key=Pair.rank_key)

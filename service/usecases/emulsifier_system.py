@@ -57,7 +57,7 @@ def _pair_refs(f: Formula, target: float) -> tuple[list[dict], bool]:
     propose = f.spec["propose"]
     ionic = tuple(propose.get("ionic_classes", DEFAULT_IONIC))
     chain = oil_chain(f.registry, [(r.item.ingredient_id, r.percent) for r in f.rows if r.phase == "oil" and r.percent is not None])
-    pairs = ranked(f.registry, target, ionic, f.strict, propose.get("include_off_scale_hlb", False), chain)
+    pairs = ranked(f.registry, target, ionic, f.strict, propose.get("include_off_scale_hlb", False), chain, limit=1)
     if not pairs:
         raise invalid(("emulsifier", "propose"), "candidate_pair_exists", f"no registry pair of the allowed ionic classes ({', '.join(ionic)}) reaches HLB {target:.1f}")
     return [{"ingredient": pairs[0].low.id}, {"ingredient": pairs[0].high.id}], True

@@ -3,7 +3,8 @@ graduates), batch masses, and the candidate-pair ranking rule."""
 import pytest
 
 from service.core.batch import mixture_mass_for_volume, qs_percent, rows_for_batch
-from service.core.candidates import Surfactant, candidate_pairs
+from service.core.candidates import Surfactant
+from service.core.pair_ranking import candidate_pairs
 from service.core.errors import CalculationError
 from service.core.measure import Balance, Graduate, choose_graduate, round_to, weighing_checks
 
