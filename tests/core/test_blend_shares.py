@@ -9,7 +9,7 @@ import pytest
 from hypothesis import HealthCheck, given, settings, strategies as st
 
 from service.core.blend import HlbValue
-from service.core.blend_shares import ConstraintsRefused, Member, Ratio, solve_shares
+from service.core.blend_shares import TOLERANCE, ConstraintsRefused, Member, Ratio, solve_shares
 from service.core.split import split_for_target
 
 
@@ -179,13 +179,16 @@ def feasible_problems(draw):
 @given(feasible_problems())
 def test_random_feasible_constraints_are_met(problem):
     # Property (no source needed): whatever the constraints, the answer meets
-    # every one of them and reaches the target within 1e-9.
+    # every one of them and reaches the target within the core's tolerance,
+    # 1e-9 relative to the target (blend_shares.TOLERANCE): an absolute 1e-9
+    # failed once on a target of 10 reached to 1.00000008e-9.
     target, ms, ratios, objective = problem
     s = solve_shares(target, ms, ratios, objective)
     x = s.fractions
+    reach = TOLERANCE * max(1.0, abs(target))
     assert math.isclose(sum(x), 1.0, abs_tol=1e-9)
-    assert abs(sum(xi * m.hlb.figure for xi, m in zip(x, ms)) - target) <= 1e-9
-    assert abs(s.hlb.figure - target) <= 1e-9
+    assert abs(sum(xi * m.hlb.figure for xi, m in zip(x, ms)) - target) <= reach
+    assert abs(s.hlb.figure - target) <= reach
     for xi, m in zip(x, ms):
         if m.fixed is not None:
             assert abs(xi - m.fixed) <= 1e-9
