@@ -74,8 +74,8 @@ timeout = 30
 graceful_timeout = 25
 max_requests = 5000
 max_requests_jitter = 500
-# The registry, schemas and pint's unit registry are read-only after start,
-# so they are safe to share across fork.
+# The registry and the schemas are read-only after start, so they are safe
+# to share across fork.
 preload_app = True
 worker_tmp_dir = "/dev/shm" if os.path.isdir("/dev/shm") else None
 # Two instances (two test servers) would clash on the default control socket.

@@ -4,8 +4,8 @@ configures; exit 0 when it answers 200, 1 otherwise.
     python -m service.healthcheck
 
 Standard library only, and nothing of the project: Docker runs it every
-interval, and importing the registry (pint's unit registry) each time would
-cost more than the check. The bind address was checked at start
+interval, and importing the registry and the app each time would cost more
+than the check. The bind address was checked at start
 (service/http/config.py), so it is only taken apart here."""
 from __future__ import annotations
 

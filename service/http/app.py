@@ -23,7 +23,7 @@ def create_app(config: Mapping | None = None) -> Flask:
     from service.http.problems import register_error_handlers
     from service.http import requests_seen
     from service.http.jsonio import StrictJSONProvider
-    from service.http.spec import build_spec, spec_json
+    from service.http.spec import OPERATIONS
     from service.http.blueprints import soap_views
     from service.http.blueprints import batch_views
 
@@ -40,12 +40,11 @@ def create_app(config: Mapping | None = None) -> Flask:
     # werkzeug's own limit backs ours up for bodies read elsewhere.
     app.config["MAX_CONTENT_LENGTH"] = settings.max_body_bytes
     app.extensions["registry"] = registry
-    spec = build_spec()
-    app.extensions["openapi"] = spec
-    app.extensions["openapi_json"] = spec_json(spec)
+    # The OpenAPI document is built on its first request (service.http.spec.document):
+    # at start it would cost a tenth of a second and apispec's import.
 
     # First, so that every later hook and handler sees the request id.
-    requests_seen.install(app, registry.version, spec)
+    requests_seen.install(app, registry.version, OPERATIONS)
     register_error_handlers(app)
     access.install(app, settings)
     # After the token check: a caller without a token learns nothing else.

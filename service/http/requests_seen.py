@@ -14,17 +14,14 @@ from service.http.logs import REQUEST_ID_HEADER, request_id_from
 log = logging.getLogger("service.requests")
 
 
-def operation_ids(spec: dict) -> dict[tuple[str, str], str]:
-    """{(Flask route, method): operationId} for every operation of the spec."""
-    out = {}
-    for path, item in spec["paths"].items():
-        for method, operation in item.items():
-            out[(path.replace("{", "<").replace("}", ">"), method.upper())] = operation["operationId"]
-    return out
+def operation_ids(operations) -> dict[tuple[str, str], str]:
+    """{(Flask route, method): operationId} for every operation of the spec's
+    table (service.http.spec.OPERATIONS: path, method, operationId, ...)."""
+    return {(path.replace("{", "<").replace("}", ">"), method.upper()): op_id for path, method, op_id, *_ in operations}
 
 
-def install(app: Flask, registry_version: str, spec: dict) -> None:
-    operations = operation_ids(spec)
+def install(app: Flask, registry_version: str, operations) -> None:
+    operations = operation_ids(operations)
     metrics.set_registry_version(registry_version)
 
     @app.before_request

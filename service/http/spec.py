@@ -10,9 +10,6 @@ import json
 import sys
 from pathlib import Path
 
-from apispec import APISpec
-from apispec.ext.marshmallow import MarshmallowPlugin
-
 from service.http import answer_examples
 from service.http.access import OPEN_PATHS
 from service.http.spec_examples import EXAMPLES, PATH_EXAMPLES, QUERY_EXAMPLES
@@ -207,7 +204,11 @@ REQUEST_ID_RESPONSE_HEADER = {
 
 def build_spec() -> dict:
     """The OpenAPI document as a plain dict (deterministic for a given code
-    and the recorded response examples)."""
+    and the recorded response examples). Built on the first request for
+    the document (service/http/app.py), not at start: apispec is loaded then."""
+    from apispec import APISpec
+    from apispec.ext.marshmallow import MarshmallowPlugin
+
     answers_recorded = answer_examples.load()
     plugin = MarshmallowPlugin()
     spec = APISpec(
@@ -362,6 +363,16 @@ def _publish_query_relations(operation: dict, query) -> None:
 
 def spec_json(spec: dict) -> str:
     return json.dumps(spec, indent=2, sort_keys=True, ensure_ascii=False) + "\n"
+
+
+def document(app) -> tuple[dict, str]:
+    """(the OpenAPI document, its JSON text), built once per process on
+    first need. Two threads may both build it: the same document, kept once."""
+    built = app.extensions.get("openapi")
+    if built is None:
+        spec = build_spec()
+        built = app.extensions.setdefault("openapi", (spec, spec_json(spec)))
+    return built
 
 
 def main(argv: list[str] | None = None) -> int:

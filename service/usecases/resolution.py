@@ -1,7 +1,7 @@
 """From a loaded request to the core's inputs: registry ids or inline values
 become figures with their provenance, and amounts become canonical floats.
 
-This is the edge where pint's units (through service.units) meet the core.
+This is the edge where request units (through service.units) meet the core.
 
 Lookups every calculation shares: the values an ingredient brings, with
 their provenance recorded in values_used, and strict mode's refusal."""

@@ -50,3 +50,19 @@ def test_allow_list_is_closed():
     # Free text is never parsed: only tokens in the allow-list exist.
     assert "gram" not in AMOUNT_UNITS and "1e9999 g" not in AMOUNT_UNITS
     assert set(DENSITY_UNITS) == {"g/mL", "g/cm3", "kg/L", "kg/m3"}
+
+
+@pytest.mark.parametrize("unit", [*AMOUNT_UNITS.values(), *DENSITY_UNITS.values()], ids=lambda u: u.token)
+def test_unit_factor_matches_pint(unit):
+    # The factors are written from their definitions; pint (PyPI, its own
+    # definitions file) converts the unit named beside each one the same way.
+    from registry.units import unit_registry
+
+    from service.units import CANONICAL
+
+    if unit.pint_name is None:
+        assert unit.to_canonical == 1.0  # parts and % w/w pass through
+        return
+    ureg = unit_registry()
+    expected = ureg.Quantity(1.0, ureg.Unit(unit.pint_name)).to(CANONICAL[unit.kind]).magnitude
+    assert math.isclose(unit.to_canonical, expected, rel_tol=1e-12)

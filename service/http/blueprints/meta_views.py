@@ -9,6 +9,7 @@ from markupsafe import Markup, escape
 from service.usecases.answers import registry_version
 from service.http.bodies import answer
 from service.http import metrics as service_metrics
+from service.http import spec as openapi_spec
 from service.http.schemas.meta import HealthSchema, ReadySchema
 
 bp = Blueprint("meta", __name__)
@@ -39,7 +40,7 @@ def metrics():
 
 @bp.get("/openapi.json")
 def openapi_json():
-    return Response(current_app.extensions["openapi_json"], mimetype="application/json")
+    return Response(openapi_spec.document(current_app)[1], mimetype="application/json")
 
 
 DOCS_PAGE = """<!doctype html>
@@ -99,6 +100,6 @@ def _ref(schema: dict) -> Markup:
 
 @bp.get("/docs")
 def docs():
-    spec = current_app.extensions["openapi"]
+    spec = openapi_spec.document(current_app)[0]
     html = render_template_string(DOCS_PAGE, spec=spec, dump=_dump, ref=_ref, code_enums=CODE_ENUMS)
     return Response(html, mimetype="text/html")
