@@ -45,7 +45,13 @@ def _final(value):
             raise _NonFinite
         return float(f"{value:.10g}")
     if kind is dict:
-        return {k: _final(v) for k, v in value.items()}
+        # Leaves that need nothing are taken as they are, without a call:
+        # most members of an answer are strings, booleans, ints or None.
+        out = {}
+        for k, v in value.items():
+            t = type(v)
+            out[k] = v if t is str or v is None or t is bool or t is int else _final(v)
+        return out
     if kind is list:
         return [_final(v) for v in value]
     if kind is str or kind is int or kind is bool or value is None:
