@@ -124,8 +124,10 @@ def check_references(data: dict, registry: Registry) -> None:
     is put right in one round."""
     errors, near_by_id = [], {}
     for path, iid in _references(data):
-        where = pointer(path + ("ingredient",))
         record = registry.get(iid)
+        if record is not None and not record.retired:
+            continue
+        where = pointer(path + ("ingredient",))
         if record is None:
             if iid not in near_by_id:
                 near_by_id[iid] = unknown_ingredient(registry, iid)
