@@ -143,6 +143,35 @@ class ProcessingRecord(Provenance):
     heat_sensitive: bool = False
 
 
+def _span(records) -> tuple[float, float] | None:
+    if not records:
+        return None
+    return min(r.low for r in records), max(r.high for r in records)
+
+
+@dataclass(frozen=True)
+class _PropertyLookup:
+    """What Ingredient's lookups answer for one property, worked out once
+    from its value records (see Ingredient for what each means)."""
+
+    active: tuple[ValueRecord, ...]
+    preferred: ValueRecord | None
+    comparable: tuple[ValueRecord, ...]
+    span: tuple[float, float] | None
+    span_without_doubtful: tuple[float, float] | None
+    has_doubtful: bool
+
+    @classmethod
+    def of(cls, prop: str, records) -> "_PropertyLookup":
+        active = tuple(r for r in records if not r.retired)
+        preferred = next((r for r in active if r.preferred), active[0] if active else None)
+        comparable = active
+        if prop == "density" and preferred is not None:
+            comparable = tuple(r for r in active if r.temperature_c == preferred.temperature_c)
+        return cls(active, preferred, comparable, _span(comparable), _span([r for r in comparable if not r.doubtful]),
+                   any(r.doubtful for r in comparable))
+
+
 @dataclass(frozen=True)
 class Ingredient:
     id: str
@@ -169,47 +198,46 @@ class Ingredient:
     # How it is handled in making the preparation; None when not recorded.
     processing: ProcessingRecord | None = None
 
+    def __post_init__(self):
+        # Lookups by property, each worked out on first use and kept: the
+        # record is frozen, so they never change, and a calculation asks
+        # them several times per value it uses. Not a field, so equality,
+        # hashing and repr see only the record.
+        object.__setattr__(self, "_lookups", {})
+
+    def _lookup(self, prop: str) -> "_PropertyLookup":
+        found = self._lookups.get(prop)
+        if found is None:
+            found = self._lookups[prop] = _PropertyLookup.of(prop, self.values.get(prop, ()))
+        return found
+
     def active(self, prop: str) -> tuple[ValueRecord, ...]:
-        return tuple(r for r in self.values.get(prop, ()) if not r.retired)
+        return self._lookup(prop).active
 
     def preferred(self, prop: str) -> ValueRecord | None:
         """The preferred active value of a property, or None."""
-        records = self.active(prop)
-        for record in records:
-            if record.preferred:
-                return record
-        return records[0] if records else None
+        return self._lookup(prop).preferred
 
     def comparable(self, prop: str) -> tuple[ValueRecord, ...]:
         """The current values that speak of the same thing as the preferred
         one: for a density, those at the preferred value's temperature (a
         density at 20 degC does not dispute one at 25 degC)."""
-        records = self.active(prop)
-        preferred = self.preferred(prop)
-        if prop == "density" and preferred is not None:
-            return tuple(r for r in records if r.temperature_c == preferred.temperature_c)
-        return records
+        return self._lookup(prop).comparable
 
     def span(self, prop: str) -> tuple[float, float] | None:
         """The lowest and highest figure the comparable values give, or None."""
-        records = self.comparable(prop)
-        if not records:
-            return None
-        return min(r.low for r in records), max(r.high for r in records)
+        return self._lookup(prop).span
 
     def span_without_doubtful(self, prop: str) -> tuple[float, float] | None:
         """The span of the comparable values not flagged doubtful, or None
         when there are none: what the sources dispute once a value known to
         be unreliable is set aside."""
-        records = [r for r in self.comparable(prop) if not r.doubtful]
-        if not records:
-            return None
-        return min(r.low for r in records), max(r.high for r in records)
+        return self._lookup(prop).span_without_doubtful
 
     def has_doubtful(self, prop: str) -> bool:
         """Whether any comparable value of the property is flagged doubtful
         (that is, whether span and span_without_doubtful may differ)."""
-        return any(r.doubtful for r in self.comparable(prop))
+        return self._lookup(prop).has_doubtful
 
     @property
     def uses_local_values(self) -> bool:

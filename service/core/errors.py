@@ -18,11 +18,23 @@ def printable(text: str) -> str:
     return _UNPRINTABLE.sub(lambda m: f"\\u{ord(m.group()):04x}", text)
 
 
+def _pointer_part(p) -> str:
+    # An index needs no escaping, and printable() is called only when there
+    # is something to escape: a pointer is made for every value an answer
+    # uses, and the member names the schemas define are plain.
+    if type(p) is int:
+        return str(p)
+    text = str(p)
+    if _UNPRINTABLE.search(text) is not None:
+        text = printable(text)
+    return text.replace("~", "~0").replace("/", "~1")
+
+
 def pointer(path) -> str:
     """A JSON pointer in the URI-fragment form RFC 9457's examples use. A key
     the caller sent (an unknown member) is echoed through printable(), so a
     pointer is always encodable."""
-    return "#/" + "/".join(printable(str(p)).replace("~", "~0").replace("/", "~1") for p in path)
+    return "#/" + "/".join([_pointer_part(p) for p in path])
 
 
 class CalculationError(ValueError):

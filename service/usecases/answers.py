@@ -45,7 +45,20 @@ def _final(value):
             raise _NonFinite
         return float(f"{value:.10g}")
     if kind is dict:
-        return {k: _final(v) for k, v in value.items()}
+        # Leaves are done here, without a call: most members of an answer
+        # are strings, booleans, ints, None or floats (as above).
+        out = {}
+        for k, v in value.items():
+            t = type(v)
+            if t is str or v is None or t is bool or t is int:
+                out[k] = v
+            elif t is float:
+                if v - v != 0.0:
+                    raise _NonFinite
+                out[k] = float(f"{v:.10g}")
+            else:
+                out[k] = _final(v)
+        return out
     if kind is list:
         return [_final(v) for v in value]
     if kind is str or kind is int or kind is bool or value is None:

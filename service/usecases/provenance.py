@@ -120,8 +120,10 @@ class ValuesUsed:
             self.add(v)
 
     def add(self, value: ValueUsed, key=None) -> None:
-        if key is not None and any(key(v) == key(value) for v in self._values):
-            return
+        if key is not None:
+            seen = key(value)
+            if any(key(v) == seen for v in self._values):
+                return
         self._values.append(value)
 
     def extend(self, values: Iterable[ValueUsed]) -> None:

@@ -97,17 +97,24 @@ def unknown_ingredient(registry: Registry, ingredient_id: str) -> tuple[str, lis
     return f"no ingredient '{ingredient_id}' in the registry{hint} (GET /v1/ingredients?q= searches by name or synonym)", near
 
 
-def _references(data, path: tuple = ()):
+def _references(data, path: tuple = (), found: list | None = None) -> list:
     """(path, id) of every registry reference in a loaded request, in body
-    order: every object with an `ingredient` member is one (IngredientRefSchema)."""
+    order: every object with an `ingredient` member is one (IngredientRefSchema).
+    Collected into one list rather than yielded through nested generators,
+    and only containers are descended into: it runs on every request."""
+    if found is None:
+        found = []
     if isinstance(data, dict):
         if isinstance(data.get("ingredient"), str):
-            yield path, data["ingredient"]
+            found.append((path, data["ingredient"]))
         for key, value in data.items():
-            yield from _references(value, path + (key,))
+            if isinstance(value, (dict, list)):
+                _references(value, path + (key,), found)
     elif isinstance(data, list):
         for i, value in enumerate(data):
-            yield from _references(value, path + (i,))
+            if isinstance(value, (dict, list)):
+                _references(value, path + (i,), found)
+    return found
 
 
 def check_references(data: dict, registry: Registry) -> None:
@@ -117,8 +124,10 @@ def check_references(data: dict, registry: Registry) -> None:
     is put right in one round."""
     errors, near_by_id = [], {}
     for path, iid in _references(data):
-        where = pointer(path + ("ingredient",))
         record = registry.get(iid)
+        if record is not None and not record.retired:
+            continue
+        where = pointer(path + ("ingredient",))
         if record is None:
             if iid not in near_by_id:
                 near_by_id[iid] = unknown_ingredient(registry, iid)

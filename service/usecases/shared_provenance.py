@@ -10,11 +10,6 @@ from service.usecases.methods import CAUTIONS
 COMMON_CAUTIONS = list(CAUTIONS)
 
 
-def _frozen(value):
-    """A hashable stand-in for a value used's member (a source block, a range)."""
-    return tuple(value.items()) if isinstance(value, dict) else value
-
-
 class SharedProvenance:
     """Collects the sources and values used of a batch's answers as each is
     referred (`refer`), in the order first met."""
@@ -29,8 +24,9 @@ class SharedProvenance:
 
     def _value(self, value: dict) -> dict:
         # The same registry figure used by two items (or twice in one) is one
-        # value of the batch; only where it was used differs.
-        key = tuple((k, _frozen(v)) for k, v in value.items() if k != "pointer")
+        # value of the batch; only where it was used differs. Members that
+        # are objects (a source block, a range) are keyed by their items.
+        key = tuple((k, tuple(v.items()) if type(v) is dict else v) for k, v in value.items() if k != "pointer")
         shared = self._values.get(key)
         if shared is None:
             source = value["source"]
