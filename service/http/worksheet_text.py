@@ -7,6 +7,7 @@ name can add a row, a cell, a heading, a list item, a link or markup; in
 either form no name can add a line. Only the template's own text is markup."""
 from __future__ import annotations
 
+import functools
 import math
 import re
 
@@ -24,10 +25,25 @@ from service.core.errors import printable
 _MD_SPECIAL = re.compile(r"[\\`*\[\]#|~&$]|(?<![A-Za-z0-9])_|_(?![A-Za-z0-9])|<(?=[A-Za-z/!?])")
 
 
+# Strings up to this long are escaped once a worker and kept: most of what a
+# sheet prints recurs from request to request (cautions, the method's text,
+# the checks' words, ingredient names). Longer ones are escaped each time,
+# so that the cache stays small (at most 2048 entries of this size).
+_MD_CACHED_LENGTH = 400
+
+
 def _md(text) -> str:
     """Literal text for a Markdown line or cell. printable() first: a line
     break becomes a visible \\u000a, so nothing from the request starts a line."""
-    return _MD_SPECIAL.sub(lambda m: "\\" + m.group(), printable(str(text)))
+    text = str(text)
+    return _md_kept(text) if len(text) <= _MD_CACHED_LENGTH else _md_escape(text)
+
+
+def _md_escape(text: str) -> str:
+    return _MD_SPECIAL.sub(lambda m: "\\" + m.group(), printable(text))
+
+
+_md_kept = functools.lru_cache(maxsize=2048)(_md_escape)
 
 
 def _plain(text) -> str:

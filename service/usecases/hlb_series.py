@@ -46,6 +46,11 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
     if oil_pct + em_pct >= 100.0:
         raise CalculationError(("emulsifier_percent",), "room_for_vehicle", "oil and emulsifier leave nothing for the vehicle")
     tests = []
+    # The same ingredient has the same density in every test, and a row of the
+    # same mass (the oils, often the vehicle) is measured the same way: each
+    # is worked out once for the series, not once a test.
+    densities: dict[int, float | None] = {}
+    measured: dict[tuple, tuple[dict, list[dict]]] = {}
     for n, point in enumerate(points, 1):
         rows = [Row(it, "oil", "ingredient", percent=oil_pct * s.weight / total_share, path=it.path) for it, s in zip(oil, shares)]
         for it, share in zip(pair, (1.0 - point.share_high, point.share_high)):
@@ -55,12 +60,18 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
         masses = rows_for_batch([row.percent for row in rows], batch_g, len(rows) - 1, balance.readability_g)
         out_rows = []
         for row, m in zip(rows, masses):
-            density = row_density(row, registry, values_used, strict) if row.item.physical_state in ("liquid", None) else None
-            measure, checks, _ = measure_row(row, m, density, balance, graduates)
+            key = (id(row.item), row.role, row.phase, m.mass_g_unrounded, m.mass_g)
+            if key not in measured:
+                if id(row.item) not in densities:
+                    densities[id(row.item)] = (row_density(row, registry, values_used, strict)
+                                               if row.item.physical_state in ("liquid", None) else None)
+                measure, checks, _ = measure_row(row, m, densities[id(row.item)], balance, graduates)
+                measured[key] = measure, [{"code": k.code, "ok": k.ok, "message": k.message} for k in checks]
+            # Shared between tests until the envelope, which builds the answer afresh.
+            measure, checks = measured[key]
             out_rows.append({"ingredient": row.item.ingredient_id, "name": row.item.name, "role": row.role, "percent_w_w": m.percent_w_w,
                              "mass_g_unrounded": m.mass_g_unrounded, "mass_g": m.mass_g, "rounding_error_percent": m.rounding_error_percent,
-                             "measure": measure,
-                             "checks": [{"code": k.code, "ok": k.ok, "message": k.message} for k in checks]})
+                             "measure": measure, "checks": checks})
         tests.append({"test": n, "hlb": round(point.hlb, 4), "percent_high_in_blend": point.share_high * 100.0, "rows": out_rows,
                       "all_measurable": all(k["ok"] for row in out_rows for k in row["checks"])})
     # Densities are not known for every oil tried here: the share is by mass.

@@ -5,7 +5,7 @@ The balance and graduates a worksheet is checked against, from the
 request or from the defaults."""
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 from registry import Registry
 from service.core.aliquot import aliquot_plan
@@ -23,12 +23,26 @@ class Row:
     role: str  # ingredient | emulsifier | qs
     percent: float | None = None
     path: tuple = ()
+    # density_value of the item, looked up once: a worksheet asks for a
+    # row's density in several passes (volume batch, measures, dispersed
+    # phase). The item and the registry do not change under a row.
+    looked_up_density: object = field(default=None, repr=False, compare=False)
+
+
+_NOT_LOOKED_UP = None
+
+
+def found_density(row: Row, registry: Registry):
+    """density_value(row.item, registry), once a row."""
+    if row.looked_up_density is _NOT_LOOKED_UP:
+        row.looked_up_density = (density_value(row.item, registry),)
+    return row.looked_up_density[0]
 
 
 def row_density(row: Row, registry: Registry, values_used: ValuesUsed, strict: bool = False) -> float | None:
     """The row's density, recorded in values_used. In strict mode an
     unverified one is not used for reporting volumes (the row is weighed)."""
-    found = density_value(row.item, registry)
+    found = found_density(row, registry)
     if found is None or (strict and found[1].unverified_registry_value):
         return None
     values_used.add(found[1], key=lambda v: (v.pointer, v.property))

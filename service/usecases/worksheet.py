@@ -14,9 +14,9 @@ from service.core.batch import mixture_mass_for_volume, qs_percent, rows_for_bat
 from service.core.errors import CalculationError, FaultList
 from service.core.measure import capacity_check
 from service.usecases.oil_phase import oil_phase_hlb
-from service.usecases.measuring import equipment_from, equipment_out, Row, measure_row, row_density
+from service.usecases.measuring import equipment_from, equipment_out, found_density, Row, measure_row, row_density
 from service.usecases.provenance import ValuesUsed
-from service.usecases.resolution import Faults, check_references, density_value, enforce_strict, hlb_ranges, invalid, resolve
+from service.usecases.resolution import Faults, check_references, enforce_strict, hlb_ranges, invalid, resolve
 from service.core.phases import DISPERSED
 from service.usecases.emulsifier_system import Formula, emulsifier_rows
 from service.usecases.heating import worksheet_heating
@@ -212,7 +212,7 @@ def _dispersed_fraction(data: dict, c: Computed, registry: Registry, strict: boo
     dispersed = DISPERSED[data["emulsion_type"]]
     inside = [r.phase == dispersed for r in c.rows]
     mass_fraction = sum(r.percent for r, d in zip(c.rows, inside) if d) / 100.0
-    if any(density_value(r.item, registry) is None for r in c.rows):
+    if any(found_density(r, registry) is None for r in c.rows):
         return mass_fraction, "by mass: not every density is known"
     densities = [row_density(r, registry, c.values_used, strict) for r in c.rows]
     if any(d is None for d in densities):

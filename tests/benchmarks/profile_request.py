@@ -4,7 +4,7 @@ service/gunicorn_conf.py writing to /dev/null, split into the parts of an
 answer's life; then what one request log line costs beside gunicorn's plain
 access line.
 
-    .venv/bin/python -m tests.benchmarks.profile_request [operationId/example ...]
+    .venv/bin/python -m tests.benchmarks.profile_request [operationId/example[:md] ...]
 """
 from __future__ import annotations
 
@@ -18,12 +18,11 @@ import sys
 from service.http.app import create_app
 from service.http.logs import logconfig
 from service.http.spec_examples import EXAMPLES
+from service.http.spec import build_spec
 
 
 def _paths() -> dict[str, str]:
-    """Each POST operation's path, by operationId, read from the app's spec."""
-    from service.http.spec import build_spec
-
+    """operationId -> path of every POST operation in the spec."""
     return {item["post"]["operationId"]: path for path, item in build_spec()["paths"].items() if "post" in item}
 
 
@@ -34,14 +33,14 @@ def _cumulative(stats, suffix: str, name: str) -> float:
 DEFAULT = ("createWorksheet/lotion", "blendHlb/by_mass")
 
 
-def split(op: str, name: str, repeat: int = 300) -> dict[str, float]:
+def split(op: str, name: str, repeat: int = 300, accept: str = "application/json") -> dict[str, float]:
     """The share of each part in one request's time, printed and returned."""
     logging.config.dictConfig(logconfig())
     logging.getLogger().handlers[0].setStream(open(os.devnull, "w"))
     client = create_app().test_client()
     # Encoded once here, so that the client's own encoding is not counted.
     path, body = _paths()[op], json.dumps(EXAMPLES[op][name]["value"])
-    post = lambda: client.post(path, data=body, content_type="application/json")  # noqa: E731
+    post = lambda: client.post(path, data=body, content_type="application/json", headers={"Accept": accept})  # noqa: E731
     assert post().status_code == 200
     profile = cProfile.Profile()
     profile.enable()
@@ -65,7 +64,7 @@ def split(op: str, name: str, repeat: int = 300) -> dict[str, float]:
         "request log line + metrics": logged,
         "Flask, werkzeug, test client": total - view - logged,
     }
-    print(f"POST {path} ({name}): {total / repeat * 1000:.3f} ms a request under cProfile")
+    print(f"POST {path} ({name}, {accept}): {total / repeat * 1000:.3f} ms a request under cProfile")
     for label, seconds in parts.items():
         print(f"  {label:40s} {seconds / total:6.1%}")
     return {label: seconds / total for label, seconds in parts.items()}
@@ -106,9 +105,11 @@ def log_line_cost(n: int = 20000) -> None:
 
 
 def main(args: list[str]) -> None:
+    # An item may end in ":md" to ask for the Markdown form.
     for item in args or DEFAULT:
+        item, _, form = item.partition(":")
         op, name = item.split("/")
-        split(op, name)
+        split(op, name, accept="text/markdown" if form == "md" else "application/json")
     log_line_cost()
 
 

@@ -10,6 +10,7 @@ from hypothesis import HealthCheck, given, settings, strategies as st
 
 from service.core.blend import HlbValue
 from service.core.blend_shares import TOLERANCE, ConstraintsRefused, Member, Ratio, solve_shares
+from service.core.errors import CalculationError
 from service.core.split import split_for_target
 
 
@@ -195,3 +196,31 @@ def test_random_feasible_constraints_are_met(problem):
         assert m.low - 1e-9 <= xi <= m.high + 1e-9
     for r in ratios:
         assert abs(r.b_parts * x[r.a] - r.a_parts * x[r.b]) <= 1e-9
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(st.lists(st.tuples(st.floats(0.0, 0.6), st.floats(0.0, 0.6)), min_size=2, max_size=4))
+def test_bounds_alone_refuse_a_total_exactly_when_the_box_cannot_hold_100_percent(boxes):
+    # With bounds alone (no fixed share, no ratio) the totals reachable are
+    # exactly Σ lower bounds to Σ upper bounds: the least and the most of a
+    # sum over a box of bounds is taken at its corners (elementary linear
+    # programming). The shortcut that skips the programs inside that range
+    # and the programs at its edges must both follow this rule.
+    ms = [Member(hv(4.0 + 4.0 * i), f"m{i}", low=min(a, b), high=max(a, b), given_low=True, given_high=True)
+          for i, (a, b) in enumerate(boxes)]
+    low, high = sum(m.low for m in ms), sum(m.high for m in ms)
+    if min(abs(low - 1.0), abs(high - 1.0)) < 1e-6:
+        return  # too near an edge for the rule to be told from the tolerance
+    fits = low < 1.0 < high
+    hlbs = [m.hlb.figure for m in ms]
+    try:
+        solve_shares(sum(hlbs) / len(hlbs), ms)
+    except CalculationError as e:
+        # Any other refusal (the target out of reach) comes after the totals passed.
+        assert (e.rule == "constraints_consistent") == (not fits), (e.rule, low, high)
+        if not fits:
+            # The figure refused is the nearer end of the box's totals.
+            side = e.extra["shares_total_low_percent"] if low > 1.0 else e.extra["shares_total_high_percent"]
+            assert side == pytest.approx((low if low > 1.0 else high) * 100, abs=1e-6)
+        return
+    assert fits, (low, high)

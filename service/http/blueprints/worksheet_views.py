@@ -29,10 +29,13 @@ def negotiated(offered: list[str] = OFFERED) -> str:
 
 
 def _as(schema, render, payload: dict, media: str) -> Response:
-    """The answer as JSON, or rendered as text in the media type asked."""
+    """The answer as JSON, or rendered as text in the media type asked. The
+    text is rendered from the payload as it stands, like the JSON: it is
+    already in the published form (tests/api/test_text_from_payload.py checks
+    that a dump by `schema` would render the same text)."""
     if media == "application/json":
         return answer(schema, payload)
-    return Response(render(schema.dump(payload), markdown=media == "text/markdown"), mimetype=media)
+    return Response(render(payload, markdown=media == "text/markdown"), mimetype=media)
 
 
 @bp.post("/worksheets")
