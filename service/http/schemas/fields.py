@@ -106,6 +106,10 @@ def ingredient_id(**kwargs) -> fields.String:
     )
 
 
+def _items(n: int) -> str:
+    return f"{n} item" if n == 1 else f"{n} items"
+
+
 class BoundedList(fields.List):
     """A JSON array whose length is checked before any item is loaded:
     marshmallow's List loads every item and only then runs validate.Length,
@@ -123,11 +127,11 @@ class BoundedList(fields.List):
         if isinstance(value, list):
             n, length = len(value), self.length
             if length.equal is not None and n != length.equal:
-                raise ValidationError(Fault.named("list_length", f"Must hold exactly {length.equal} items (holds {n})."))
+                raise ValidationError(Fault.named("list_length", f"Must hold exactly {_items(length.equal)} (holds {n})."))
             if length.min is not None and n < length.min:
-                raise ValidationError(Fault.named("list_length", f"Must hold at least {length.min} items (holds {n})."))
+                raise ValidationError(Fault.named("list_length", f"Must hold at least {_items(length.min)} (holds {n})."))
             if length.max is not None and n > length.max:
-                raise ValidationError(Fault.named("list_length", f"Must hold at most {length.max} items (holds {n}); nothing in it was checked."))
+                raise ValidationError(Fault.named("list_length", f"Must hold at most {_items(length.max)} (holds {n}); nothing in it was checked."))
         return super()._deserialize(value, attr, data, **kwargs)
 
 
