@@ -14,8 +14,9 @@ from service.http.requests_seen import operation_ids
 from service.http.spec import OPERATIONS, build_spec
 
 ROOT = Path(__file__).resolve().parents[2]
-# scipy: blends solved under constraints; matplotlib: the series' SVG; fpdf
-# and pypdf: PDFs; numpy: only theirs; pint: unit texts outside the table;
+# scipy: never in the service (the tests' reference for the blend
+# programs); matplotlib: the series' SVG; fpdf and pypdf: PDFs; numpy: only
+# matplotlib's; pint: unit texts outside the table;
 # jsonschema: the faults of a file the compiled validator refused; apispec:
 # the OpenAPI document.
 NOT_AT_START = ["scipy", "numpy", "matplotlib", "fpdf", "pypdf", "pint", "jsonschema", "apispec"]
@@ -42,6 +43,17 @@ def test_building_the_app_and_answering_the_common_calls_loads_none_of_them():
         "        assert client.post(paths[op_id], json=example['value']).status_code == 200, op_id\n"
         "assert client.post('/v1/blends/hlb', json={'components': []}).status_code == 422")
     assert [m for m, yes in loaded.items() if yes] == []
+
+
+def test_solving_a_blend_loads_neither_numpy_nor_scipy():
+    # The blend programs are plain Python (service/core/blend_programs.py).
+    loaded = _loaded_after(
+        "from service.http.app import create_app\n"
+        "from service.http.spec_examples import EXAMPLES\n"
+        "client = create_app({'testing': True}).test_client()\n"
+        "for example in EXAMPLES['solveBlend'].values():\n"
+        "    assert client.post('/v1/blends/solve', json=example['value']).status_code == 200\n")
+    assert not loaded["numpy"] and not loaded["scipy"]
 
 
 def test_the_check_is_able_to_see_a_library_loaded():

@@ -151,7 +151,10 @@ def kkt_holds(x, centre, rows, bounds, tol=1e-7):
     cols, lb, ub = [np.asarray(r, dtype=float) for r in rows], [-np.inf] * len(rows), [np.inf] * len(rows)
     for j, (lo, hi) in enumerate(bounds):
         e = np.eye(n)[j]
-        if abs(x[j] - lo) <= 1e-9:
+        if abs(x[j] - lo) <= 1e-9 and abs(x[j] - hi) <= 1e-9:
+            # A fixed share (lo = hi): its multiplier has either sign.
+            cols.append(e); lb.append(-np.inf); ub.append(np.inf)
+        elif abs(x[j] - lo) <= 1e-9:
             cols.append(e); lb.append(0.0); ub.append(np.inf)
         elif abs(x[j] - hi) <= 1e-9:
             cols.append(e); lb.append(-np.inf); ub.append(0.0)
@@ -187,3 +190,21 @@ def test_the_three_member_projection_matches_slsqp():
     x = closest_shares([1 / 3] * 3, [0.3, 0.3, 0.4], rows, rhs, bounds)
     ref = slsqp([1 / 3] * 3, [0.3, 0.3, 0.4], rows, rhs, bounds)
     assert ref.success and x == pytest.approx(list(ref.x), abs=1e-8)
+
+
+def test_marginals_match_highs_where_they_are_unique():
+    # A non-degenerate optimum (one share strictly inside its bounds, the
+    # others on theirs), so the duals are unique: scipy.optimize.linprog
+    # (HiGHS) is the reference; by hand, the row's marginal is the free
+    # share's cost (10), the others' reduced costs 4.3 - 10 and 15 - 10.
+    cost, rows, rhs, bounds = [4.3, 10.0, 15.0], [[1.0, 1.0, 1.0]], [1.0], [(0.0, 0.6), (0.0, 1.0), (0.0, 1.0)]
+    ref = highs(cost, rows, rhs, bounds)
+    ours = linear_optimum(cost, rows, rhs, bounds)
+    assert ours is not None and ref.status == 0
+    assert ours.shares == pytest.approx(tuple(ref.x), abs=1e-12)
+    assert ours.shares == pytest.approx((0.6, 0.4, 0.0), abs=1e-12)
+    assert ours.row_marginals == pytest.approx(tuple(ref.eqlin.marginals), abs=1e-9)
+    assert ours.row_marginals == pytest.approx((10.0,))
+    assert ours.lower_marginals == pytest.approx(tuple(ref.lower.marginals), abs=1e-9)
+    assert ours.upper_marginals == pytest.approx(tuple(ref.upper.marginals), abs=1e-9)
+    assert ours.upper_marginals[0] == pytest.approx(4.3 - 10.0) and ours.lower_marginals[2] == pytest.approx(5.0)
