@@ -36,18 +36,31 @@ def _finite_float(text: str):
 
 
 def _no_duplicates(pairs: list) -> dict:
-    out = {}
-    for key, value in pairs:
-        if key in out:
-            raise StrictJSONError(f"duplicate key '{key[:60]}'")
-        out[key] = value
+    out = dict(pairs)
+    # dict() in C, and the pairs walked only when one key came twice.
+    if len(out) != len(pairs):
+        seen = set()
+        for key, _value in pairs:
+            if key in seen:
+                raise StrictJSONError(f"duplicate key '{key[:60]}'")
+            seen.add(key)
     return out
+
+
+# Built once: json.loads with hooks builds a new decoder on every call.
+_DECODER = json.JSONDecoder(parse_constant=NonFiniteNumber, parse_float=_finite_float, object_pairs_hook=_no_duplicates)
 
 
 def strict_loads(text: str | bytes):
     """Parse JSON strictly. Raises StrictJSONError with a reason."""
     try:
-        return json.loads(text, parse_constant=NonFiniteNumber, parse_float=_finite_float, object_pairs_hook=_no_duplicates)
+        # As json.loads reads bytes (UTF-8, -16 or -32, found from the first
+        # bytes) and refuses a str that starts with a byte order mark.
+        if isinstance(text, (bytes, bytearray)):
+            text = text.decode(json.detect_encoding(text), "surrogatepass")
+        elif text.startswith("\ufeff"):
+            raise json.JSONDecodeError("Unexpected UTF-8 BOM (decode using utf-8-sig)", text, 0)
+        return _DECODER.decode(text)
     except StrictJSONError:
         raise
     except RecursionError:

@@ -4,7 +4,7 @@ from __future__ import annotations
 from marshmallow import Schema, fields, validate
 
 from service.http.schemas.enums import BATCH_OPERATIONS
-from service.http.schemas.fields import Boolean, BoundedList
+from service.http.schemas.fields import Boolean, BoundedList, Nested
 from service.http.schemas.meta import ProblemSchema
 from service.http.schemas.responses import CitationSchema, RegistryVersionSchema, ValueUsedSchema
 
@@ -23,7 +23,7 @@ class BatchItemRequestSchema(Schema):
 
 
 class BatchRequestSchema(Schema):
-    items = BoundedList(fields.Nested(BatchItemRequestSchema), required=True, min_items=1, max_items=MAX_ITEMS, metadata={
+    items = BoundedList(Nested(BatchItemRequestSchema), required=True, min_items=1, max_items=MAX_ITEMS, metadata={
         "description": f"1 to {MAX_ITEMS} calculations, answered in this order."})
     strict = Boolean(metadata={"description": "Strict mode for every item (an item's body may also ask for it; a service running in "
                                               "strict mode is strict whatever this says)."})
@@ -50,19 +50,19 @@ class BatchItemAnswerSchema(Schema):
         "referred to: no `registry` (the batch's); `method.sources` are source ids of the batch's `sources`; `values_used` items are "
         "`{value, pointer}` referring to the batch's `values_used`; `cautions` holds only those beyond the batch's `cautions`. "
         "Sources inside a result (a compounding record's beyond-use date) stay as the operation gives them.")})
-    problem = fields.Nested(ProblemSchema, metadata={"description": (
+    problem = Nested(ProblemSchema, metadata={"description": (
         "The problem its own request would have been answered with: pointers relative to the item's body. A fault of the "
         "service's (500) carries the `error_id` of its log line.")})
 
 
 class BatchAnswerSchema(Schema):
-    registry = fields.Nested(RegistryVersionSchema, required=True)
+    registry = Nested(RegistryVersionSchema, required=True)
     cautions = fields.List(fields.String(), required=True, metadata={"description": "The cautions every answer of the batch carries."})
-    sources = fields.List(fields.Nested(CitationSchema), required=True, metadata={
+    sources = fields.List(Nested(CitationSchema), required=True, metadata={
         "description": "Each source the items' methods and values used cite, once."})
-    values_used = fields.List(fields.Nested(SharedValueSchema), required=True, metadata={
+    values_used = fields.List(Nested(SharedValueSchema), required=True, metadata={
         "description": "Each value the items used, once, with its provenance."})
-    items = fields.List(fields.Nested(BatchItemAnswerSchema), required=True, metadata={"description": "One per request item, in order."})
+    items = fields.List(Nested(BatchItemAnswerSchema), required=True, metadata={"description": "One per request item, in order."})
     answered = fields.Integer(required=True, metadata={"description": "How many items have an answer."})
     refused = fields.Integer(required=True, metadata={"description": "How many items have a problem."})
 

@@ -7,7 +7,7 @@ from marshmallow import Schema, fields
 from service.http.schemas.calculation_requests import MAX_COMPONENTS
 from service.http.schemas.common import AbsoluteAmountSchema, IngredientRefSchema
 from service.http.schemas.enums import enum_field
-from service.http.schemas.fields import Boolean, BoundedList, Integer, Number
+from service.http.schemas.fields import Boolean, BoundedList, Integer, Nested, Number
 from service.http.schemas.responses import AmountOutSchema, NullableNumber, NullableString, RangeSchema, answer
 from service.http.schemas.rules import at_most_one, not_above
 
@@ -40,11 +40,11 @@ class BlendRatioSchema(Schema):
 
 class BlendSolveRequestSchema(Schema):
     target_hlb = Number(required=True, minimum=0, maximum=60)
-    surfactants = BoundedList(fields.Nested(BlendMemberSchema), required=True, min_items=2, max_items=MAX_COMPONENTS, metadata={
+    surfactants = BoundedList(Nested(BlendMemberSchema), required=True, min_items=2, max_items=MAX_COMPONENTS, metadata={
         "description": "The members: three or more is what this is for; two give the same shares as /v1/blends/proportions."})
-    ratios = BoundedList(fields.Nested(BlendRatioSchema), max_items=MAX_COMPONENTS, metadata={"description": "Ratios between two members' shares."})
+    ratios = BoundedList(Nested(BlendRatioSchema), max_items=MAX_COMPONENTS, metadata={"description": "Ratios between two members' shares."})
     objective = enum_field("BlendObjective", request=True, metadata={"description": "How the answer is chosen among the many; default most_even."})
-    total = fields.Nested(AbsoluteAmountSchema, metadata={"description": "Scale the blend to this total mass or volume."})
+    total = Nested(AbsoluteAmountSchema, metadata={"description": "Scale the blend to this total mass or volume."})
     emulsion_type = enum_field("EmulsionType", request=True, metadata={"description": "When given, the blend HLB is checked against the range usual for this type."})
     strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
@@ -72,13 +72,13 @@ class BlendSolveResultSchema(Schema):
     target_hlb = fields.Float(required=True)
     hlb_reached = fields.Float(required=True, metadata={"description": "The blend HLB of the shares, recomputed from them, rounded to 0.1."})
     hlb_reached_unrounded = fields.Float(required=True, metadata={"description": "Before display rounding, to 6 decimals."})
-    hlb_range = fields.Nested(RangeSchema, required=True, metadata={"description": "What the blend HLB of these shares spans across every source's values."})
+    hlb_range = Nested(RangeSchema, required=True, metadata={"description": "What the blend HLB of these shares spans across every source's values."})
     objective = enum_field("BlendObjective", required=True)
     objective_description = fields.String(required=True)
-    reachable_range = fields.Nested(RangeSchema, required=True, metadata={"description": "The least and the greatest blend HLB under the constraints."})
+    reachable_range = Nested(RangeSchema, required=True, metadata={"description": "The least and the greatest blend HLB under the constraints."})
     ionic_share_percent_w_w = fields.Float(required=True, metadata={"description": f"The ionic members' total share ({SHARE})."})
-    surfactants = fields.List(fields.Nested(BlendShareSchema), required=True)
-    constraints = fields.List(fields.Nested(BlendConstraintSchema), required=True, metadata={"description": "The caller's constraints, and whether each is active."})
+    surfactants = fields.List(Nested(BlendShareSchema), required=True)
+    constraints = fields.List(Nested(BlendConstraintSchema), required=True, metadata={"description": "The caller's constraints, and whether each is active."})
     total_mass_g = NullableNumber(required=True)
     total_volume_ml = NullableNumber(required=True)
 
@@ -102,9 +102,9 @@ class BlendRatioInputSchema(Schema):
 class BlendSolveInputsSchema(Schema):
     target_hlb = fields.Float(required=True)
     objective = enum_field("BlendObjective", required=True)
-    surfactants = fields.List(fields.Nested(BlendMemberInputSchema), required=True)
-    ratios = fields.List(fields.Nested(BlendRatioInputSchema), required=True)
-    total = fields.Nested(AmountOutSchema, allow_none=True, required=True)
+    surfactants = fields.List(Nested(BlendMemberInputSchema), required=True)
+    ratios = fields.List(Nested(BlendRatioInputSchema), required=True)
+    total = Nested(AmountOutSchema, allow_none=True, required=True)
     emulsion_type = enum_field("EmulsionType", required=True, allow_none=True)
 
 

@@ -1,7 +1,7 @@
 """Request bodies of the four calculations."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields
+from marshmallow import Schema
 
 from service.http.schemas.common import (
     EMULSION_TYPES,
@@ -13,31 +13,31 @@ from service.http.schemas.common import (
     MassSchema,
     SensitivitySchema,
 )
-from service.http.schemas.fields import Boolean, BoundedList, Number, one_of
+from service.http.schemas.fields import Boolean, BoundedList, Nested, Number, one_of
 from service.http.schemas.enums import enum_field
 
 MAX_COMPONENTS = 30
 
 
 class BlendRequestSchema(Schema):
-    components = BoundedList(fields.Nested(ComponentSchema), required=True, min_items=2, max_items=MAX_COMPONENTS,
+    components = BoundedList(Nested(ComponentSchema), required=True, min_items=2, max_items=MAX_COMPONENTS,
                              metadata={"description": "Two or more surfactants with their amounts."})
     emulsion_type = enum_field("EmulsionType", request=True, metadata={"description": "When given, the blend HLB is checked against the range usual for this type."})
     strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
 
 class FixedSurfactantSchema(IngredientRefSchema):
-    amount = fields.Nested(AmountSchema, required=True, metadata={
+    amount = Nested(AmountSchema, required=True, metadata={
         "description": "Its share: `% w/w` of the blend, or a mass when `total` is a mass."})
 
 
 class SplitRequestSchema(Schema):
     target_hlb = Number(required=True, minimum=0, maximum=60)
-    pair = BoundedList(fields.Nested(IngredientRefSchema), required=True, exact_items=2,
+    pair = BoundedList(Nested(IngredientRefSchema), required=True, exact_items=2,
                        metadata={"description": "The two surfactants whose proportions are solved for, one of lower and one of higher HLB than the target."})
-    fixed = BoundedList(fields.Nested(FixedSurfactantSchema), max_items=MAX_COMPONENTS,
+    fixed = BoundedList(Nested(FixedSurfactantSchema), max_items=MAX_COMPONENTS,
                         metadata={"description": "Further surfactants at fixed shares of the blend."})
-    total = fields.Nested(AbsoluteAmountSchema, metadata={"description": "Scale the blend to this total mass or volume."})
+    total = Nested(AbsoluteAmountSchema, metadata={"description": "Scale the blend to this total mass or volume."})
     emulsion_type = enum_field("EmulsionType", request=True)
     strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
@@ -48,22 +48,22 @@ class OilComponentSchema(ComponentSchema):
 
 class RequiredHlbRequestSchema(Schema):
     emulsion_type = enum_field("EmulsionType", request=True, required=True)
-    oil_phase = BoundedList(fields.Nested(OilComponentSchema), required=True, min_items=1, max_items=MAX_COMPONENTS)
+    oil_phase = BoundedList(Nested(OilComponentSchema), required=True, min_items=1, max_items=MAX_COMPONENTS)
     strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
 
 class BalanceSchema(Schema):
-    sensitivity = fields.Nested(SensitivitySchema, metadata={"description": "Sensitivity requirement; default 6 mg (Class A prescription balance)."})
+    sensitivity = Nested(SensitivitySchema, metadata={"description": "Sensitivity requirement; default 6 mg (Class A prescription balance)."})
     acceptable_error_percent = Number(minimum=0.1, maximum=50, metadata={"description": "Default 5."})
 
 
 class MinimumEmulsifierRequestSchema(Schema):
     required_hlb = Number(required=True, minimum=0, exclusive_maximum=20, metadata={"description": "Required HLB of the oil phase; the formula is singular at 20."})
-    surfactant_density = fields.Nested(DensitySchema, required=True)
-    dispersed_phase_density = fields.Nested(DensitySchema, required=True)
+    surfactant_density = Nested(DensitySchema, required=True)
+    dispersed_phase_density = Nested(DensitySchema, required=True)
     continuous_phase_percent = Number(required=True, exclusive_minimum=0, exclusive_maximum=100)
-    batch = fields.Nested(MassSchema, metadata={"description": "Batch mass: the estimate is then also given for the batch, rounded up to a weighable amount."})
-    balance = fields.Nested(BalanceSchema)
+    batch = Nested(MassSchema, metadata={"description": "Batch mass: the estimate is then also given for the batch, rounded up to a weighable amount."})
+    balance = Nested(BalanceSchema)
 
 
 __all__ = ["BlendRequestSchema", "DensitySchema", "MinimumEmulsifierRequestSchema", "RequiredHlbRequestSchema", "SplitRequestSchema"]

@@ -2,9 +2,9 @@
 ways of naming an ingredient (a registry id, or inline values)."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields
+from marshmallow import Schema
 
-from service.http.schemas.fields import Boolean, Number, ingredient_id, one_of, text
+from service.http.schemas.fields import Boolean, Nested, Number, ingredient_id, one_of, text
 from service.http.schemas.rules import RuleChecks, exactly_one, within_unit_bounds
 from service.usecases.measuring import CAPACITY_G, CAPACITY_ML, READABILITY_G, SENSITIVITY_G, SUBDIVISION_ML
 from service.usecases.resolution import DENSITY_RANGE_G_PER_ML
@@ -85,7 +85,7 @@ class InlineIngredientSchema(Schema):
     name = text(required=True)
     hlb = Number(minimum=0, maximum=60, metadata={"description": "HLB, for a surfactant."})
     required_hlb = Number(minimum=0, maximum=20, metadata={"description": "Required HLB for the emulsion type asked, for an oil-phase ingredient."})
-    density = fields.Nested(DensitySchema)
+    density = Nested(DensitySchema)
     ionic_class = one_of(IONIC_CLASSES)
     physical_state = one_of(PHYSICAL_STATES)
 
@@ -96,13 +96,13 @@ class IngredientRefSchema(RuleChecks):
     RULES = (exactly_one("ingredient", "inline", "Give exactly one of 'ingredient' (a registry id) or 'inline' (the ingredient's values)."),)
 
     ingredient = ingredient_id()
-    inline = fields.Nested(InlineIngredientSchema)
-    density = fields.Nested(DensitySchema, metadata={"description": "Overrides the registry's density (e.g. a value measured on the lot in hand); reported as caller-supplied."})
+    inline = Nested(InlineIngredientSchema)
+    density = Nested(DensitySchema, metadata={"description": "Overrides the registry's density (e.g. a value measured on the lot in hand); reported as caller-supplied."})
 
 
 
 class ComponentSchema(IngredientRefSchema):
-    amount = fields.Nested(AmountSchema, required=True)
+    amount = Nested(AmountSchema, required=True)
 
 
 __all__ = [

@@ -16,6 +16,7 @@ from service.core import codes
 from service.core.procedure import SET_BY
 from service.units import DENSITY_UNITS, MASS_UNITS, RELATIVE_UNITS, VOLUME_UNITS
 from service.usecases.provenance import ORIGINS
+from service.http.schemas.fields import String
 
 # The rules of a request's schema, as problem items name them; the
 # calculation's own refusals are in service/core/codes.py.
@@ -112,7 +113,7 @@ def enum_field(*names: str, request: bool = False, **kwargs) -> fields.String:
     metadata = {"x-enum-names": list(names), **kwargs.pop("metadata", {})}
     if request:
         kwargs["validate"] = validate.OneOf([v for n in names for v in ENUMS[n].values])
-    return fields.String(metadata=metadata, **kwargs)
+    return String(metadata=metadata, **kwargs)
 
 
 def publish(document: dict) -> None:

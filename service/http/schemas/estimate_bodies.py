@@ -7,7 +7,7 @@ from marshmallow import Schema, fields, validate
 from service.http.schemas.responses import RangeSchema, RegistryVersionSchema, answer
 from service.http.schemas.calculation_requests import OilComponentSchema
 from service.http.schemas.common import EMULSION_TYPES, IngredientRefSchema, MassSchema
-from service.http.schemas.fields import ID_PATTERN, Boolean, BoundedList, FullMatch, Number, one_of, text
+from service.http.schemas.fields import Boolean, BoundedList, FullMatch, ID_PATTERN, Nested, Number, one_of, text
 from service.http.schemas.rules import Rule, RuleChecks, at_least_one, at_most_one, exactly_one, not_above
 from service.http.schemas.worksheet_bodies import CheckSchema, EquipmentOutSchema, EquipmentSchema, MeasureSchema
 from service.http.schemas.enums import enum_field
@@ -69,13 +69,13 @@ class HlbEstimateRequestSchema(RuleChecks):
     has_oxypropylene = Boolean(metadata={"description": "Contains propylene oxide units (outside Griffin's scope)."})
     contains_nitrogen = Boolean(metadata={"description": "Outside Griffin's scope; found from a formula when one is given."})
     contains_sulfur = Boolean(metadata={"description": "Outside Griffin's scope; found from a formula when one is given."})
-    hydrophile = fields.Nested(MolarPartSchema)
-    molecule = fields.Nested(MolarPartSchema)
+    hydrophile = Nested(MolarPartSchema)
+    molecule = Nested(MolarPartSchema)
     saponification_number = Number(exclusive_minimum=0, maximum=2000, metadata={"description": "mg KOH per g of the ester."})
     acid_number = Number(exclusive_minimum=0, maximum=2000, metadata={"description": "mg KOH per g of the fatty acid."})
     oxyethylene_percent = Number(exclusive_minimum=0, maximum=100, metadata={"description": "E, weight % oxyethylene."})
     polyol_percent = Number(minimum=0, maximum=100, metadata={"description": "P, weight % polyol (sorbitol, glycerol...)."})
-    groups = BoundedList(fields.Nested(GroupCountSchema), min_items=1, max_items=30)
+    groups = BoundedList(Nested(GroupCountSchema), min_items=1, max_items=30)
 
     RULES = _method_rules()
 
@@ -100,8 +100,8 @@ class HlbEstimateResultSchema(Schema):
     hlb_unrounded = fields.Float(required=True)
     scope = fields.String(required=True)
     weaknesses = fields.List(fields.String(), required=True)
-    contributions = fields.List(fields.Nested(ContributionSchema), required=True, allow_none=True)
-    molar_masses = fields.Nested(MolarMassesSchema, required=True, allow_none=True)
+    contributions = fields.List(Nested(ContributionSchema), required=True, allow_none=True)
+    molar_masses = Nested(MolarMassesSchema, required=True, allow_none=True)
 
 
 class EchoSchema(Schema):
@@ -117,17 +117,17 @@ class HlbBoundsSchema(RuleChecks):
 
 class SeriesPlanRequestSchema(RuleChecks):
     emulsion_type = enum_field("EmulsionType", request=True, required=True)
-    pair = BoundedList(fields.Nested(IngredientRefSchema), required=True, exact_items=2)
-    hlb_range = fields.Nested(HlbBoundsSchema, metadata={"description": "Default: all the pair reaches."})
+    pair = BoundedList(Nested(IngredientRefSchema), required=True, exact_items=2)
+    hlb_range = Nested(HlbBoundsSchema, metadata={"description": "Default: all the pair reaches."})
     step_hlb = Number(minimum=0.05, maximum=20, metadata={"description": "HLB units between tests."})
     proportion_step_percent = Number(minimum=1, maximum=50, metadata={"description": "Step in the pair's proportions; default 10 (Griffin's 10 % steps)."})
-    oil_phase = BoundedList(fields.Nested(OilComponentSchema), required=True, min_items=1, max_items=20,
+    oil_phase = BoundedList(Nested(OilComponentSchema), required=True, min_items=1, max_items=20,
                             metadata={"description": "The oil under test; amounts are shares of the oil phase (any basis)."})
     oil_percent = Number(required=True, exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "Oil phase, % w/w of each test emulsion."})
     emulsifier_percent = Number(required=True, exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "Emulsifier, % w/w of each test emulsion."})
-    test_batch = fields.Nested(MassSchema, required=True, metadata={"description": "Mass of each test emulsion."})
-    vehicle = fields.Nested(IngredientRefSchema, metadata={"description": f"The continuous-phase vehicle made up to the batch; default {DEFAULT_AQUEOUS_VEHICLE}."})
-    equipment = fields.Nested(EquipmentSchema)
+    test_batch = Nested(MassSchema, required=True, metadata={"description": "Mass of each test emulsion."})
+    vehicle = Nested(IngredientRefSchema, metadata={"description": f"The continuous-phase vehicle made up to the batch; default {DEFAULT_AQUEOUS_VEHICLE}."})
+    equipment = Nested(EquipmentSchema)
     strict = Boolean()
 
     RULES = (at_most_one("proportion_step_percent", "step_hlb", "Give 'step_hlb' or 'proportion_step_percent', not both."),)
@@ -141,24 +141,24 @@ class SeriesRowSchema(Schema):
     mass_g_unrounded = fields.Float(required=True)
     mass_g = fields.Float(required=True)
     rounding_error_percent = fields.Float(required=True)
-    measure = fields.Nested(MeasureSchema, required=True)
-    checks = fields.List(fields.Nested(CheckSchema), required=True)
+    measure = Nested(MeasureSchema, required=True)
+    checks = fields.List(Nested(CheckSchema), required=True)
 
 
 class SeriesTestSchema(Schema):
     test = fields.Integer(required=True)
     hlb = fields.Float(required=True)
     percent_high_in_blend = fields.Float(required=True)
-    rows = fields.List(fields.Nested(SeriesRowSchema), required=True)
+    rows = fields.List(Nested(SeriesRowSchema), required=True)
     all_measurable = fields.Boolean(required=True)
 
 
 class SeriesPlanResultSchema(Schema):
     pair = fields.List(fields.String(), required=True)
-    pair_hlb = fields.Nested(RangeSchema, required=True)
-    tests = fields.List(fields.Nested(SeriesTestSchema), required=True)
+    pair_hlb = Nested(RangeSchema, required=True)
+    tests = fields.List(Nested(SeriesTestSchema), required=True)
     test_batch_mass_g = fields.Float(required=True)
-    equipment = fields.Nested(EquipmentOutSchema, required=True)
+    equipment = Nested(EquipmentOutSchema, required=True)
 
 
 OBSERVATIONS = ("score", "passed", "mean_droplet_um")
@@ -184,10 +184,10 @@ class ObservationSchema(RuleChecks):
 
 class SeriesEvaluateRequestSchema(RuleChecks):
     strict = Boolean()
-    tests = BoundedList(fields.Nested(ObservationSchema), required=True, min_items=2, max_items=41)
+    tests = BoundedList(Nested(ObservationSchema), required=True, min_items=2, max_items=41)
     higher_score_is_better = Boolean(metadata={"description": "Default true."})
-    pair_hlb_range = fields.Nested(HlbBoundsSchema, metadata={"description": "What the pair reaches, to keep the next series within it."})
-    pair = BoundedList(fields.Nested(IngredientRefSchema), exact_items=2,
+    pair_hlb_range = Nested(HlbBoundsSchema, metadata={"description": "What the pair reaches, to keep the next series within it."})
+    pair = BoundedList(Nested(IngredientRefSchema), exact_items=2,
                        metadata={"description": "The series' surfactant pair: the next series is then also given as the pair's proportions, within its reach."})
     oil = text(metadata={"description": "The oil under test, for the record and the plot's title (image/svg+xml)."})
 
@@ -227,13 +227,13 @@ class DaviesGroupSchema(Schema):
     formula = fields.String(required=True)
     kind = fields.String(required=True)
     number = fields.Float(required=True)
-    values = fields.List(fields.Nested(DaviesGroupValueSchema), required=True)
+    values = fields.List(Nested(DaviesGroupValueSchema), required=True)
 
 
 class DaviesGroupListSchema(Schema):
     count = fields.Integer(required=True)
-    groups = fields.List(fields.Nested(DaviesGroupSchema), required=True)
-    registry = fields.Nested(RegistryVersionSchema, required=True)
+    groups = fields.List(Nested(DaviesGroupSchema), required=True)
+    registry = Nested(RegistryVersionSchema, required=True)
 
 
 HlbEstimateAnswerSchema = answer("HlbEstimateAnswer", HlbEstimateResultSchema, EchoSchema)

@@ -19,7 +19,29 @@ from service.http.schemas.rules import Fault
 MAX_MAGNITUDE = 1e9
 
 
-class Number(fields.Float):
+class ValidatedOnce:
+    """A field whose validators run through one validate.And built on first
+    use: marshmallow's Field builds a new And on every value it loads, even
+    for a field with no validators. Errors are And's, as before."""
+
+    def _validate(self, value):
+        if not self.validators:
+            return
+        check = self.__dict__.get("_all_validators")
+        if check is None:
+            check = self._all_validators = validate.And(*self.validators)
+        check(value)
+
+
+class String(ValidatedOnce, fields.String):
+    pass
+
+
+class Nested(ValidatedOnce, fields.Nested):
+    pass
+
+
+class Number(ValidatedOnce, fields.Float):
     """A JSON number (not a string, not a boolean), finite, within bounds."""
 
     default_error_messages = {"invalid": "Not a valid number: a JSON number is required (strings and booleans are refused)."}
@@ -52,7 +74,7 @@ class Number(fields.Float):
         return number
 
 
-class Integer(fields.Integer):
+class Integer(ValidatedOnce, fields.Integer):
     """A JSON integer (2.0 counts, as JSON Schema says; 2.5, strings and
     booleans do not), within bounds."""
 
@@ -74,7 +96,7 @@ class Integer(fields.Integer):
         return int(value)
 
 
-class Boolean(fields.Boolean):
+class Boolean(ValidatedOnce, fields.Boolean):
     """true or false only."""
 
     default_error_messages = {"invalid": "Not a valid boolean: true or false is required."}
@@ -99,7 +121,7 @@ ID_PATTERN = r"^[a-z0-9]+(-[a-z0-9]+)*$"
 
 
 def ingredient_id(**kwargs) -> fields.String:
-    return fields.String(
+    return String(
         validate=[validate.Length(min=1, max=80), FullMatch(ID_PATTERN, error="Must be a registry id: lower-case letters, digits and single hyphens.")],
         metadata={"description": "Registry id of an ingredient, e.g. `polysorbate-80`.", **kwargs.pop("metadata", {})},
         **kwargs,
@@ -110,7 +132,7 @@ def _items(n: int) -> str:
     return f"{n} item" if n == 1 else f"{n} items"
 
 
-class BoundedList(fields.List):
+class BoundedList(ValidatedOnce, fields.List):
     """A JSON array whose length is checked before any item is loaded:
     marshmallow's List loads every item and only then runs validate.Length,
     so a body of thousands of bad items cost a full validation of each, and
@@ -136,7 +158,7 @@ class BoundedList(fields.List):
 
 
 def one_of(choices, **kwargs) -> fields.String:
-    return fields.String(validate=validate.OneOf(list(choices)), **kwargs)
+    return String(validate=validate.OneOf(list(choices)), **kwargs)
 
 
 # C0 (tab, newline and CR included), DEL and C1: none belongs in a name or a
@@ -166,10 +188,10 @@ def plain_text(value: str) -> str:
 def text(max_length: int = 120, **kwargs) -> fields.String:
     """Free text from the caller (a name): printable, 1 to max_length characters."""
     metadata = {"pattern": TEXT_PATTERN, **kwargs.pop("metadata", {})}
-    return fields.String(validate=[validate.Length(min=1, max=max_length), plain_text], metadata=metadata, **kwargs)
+    return String(validate=[validate.Length(min=1, max=max_length), plain_text], metadata=metadata, **kwargs)
 
 
-__all__ = ["Boolean", "BoundedList", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Integer", "Number", "QueryNumber", "TEXT_PATTERN", "ingredient_id", "one_of", "plain_text", "text"]
+__all__ = ["Boolean", "BoundedList", "FullMatch", "ID_PATTERN", "MAX_MAGNITUDE", "Integer", "Nested", "Number", "String", "ValidatedOnce", "QueryNumber", "TEXT_PATTERN", "ingredient_id", "one_of", "plain_text", "text"]
 
 
 class QueryNumber(Number):

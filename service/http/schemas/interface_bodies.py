@@ -6,7 +6,7 @@ from marshmallow import Schema, fields
 
 from registry.model import AREA_BASES
 from service.http.schemas.common import AbsoluteAmountSchema, DensitySchema, IngredientRefSchema
-from service.http.schemas.fields import Boolean, BoundedList, Number, one_of
+from service.http.schemas.fields import Boolean, BoundedList, Nested, Number, one_of
 from service.http.schemas.responses import answer
 from service.http.schemas.rules import RuleChecks, exactly_one
 
@@ -20,7 +20,7 @@ DIAMETER_UM = {"exclusive_minimum": 0, "maximum": 1000}
 
 
 class PhaseSchema(IngredientRefSchema):
-    amount = fields.Nested(AbsoluteAmountSchema, required=True, metadata={
+    amount = Nested(AbsoluteAmountSchema, required=True, metadata={
         "description": "A volume, or a mass (then its density is needed: the registry's, `density` or the inline one)."})
 
 
@@ -31,7 +31,7 @@ class SizeClassSchema(Schema):
 
 class DropletsSchema(RuleChecks):
     d32_um = Number(**DIAMETER_UM, metadata={"description": "The Sauter mean diameter d32, µm (target or measured)."})
-    distribution = BoundedList(fields.Nested(SizeClassSchema), min_items=1, max_items=MAX_SIZE_CLASSES, metadata={
+    distribution = BoundedList(Nested(SizeClassSchema), min_items=1, max_items=MAX_SIZE_CLASSES, metadata={
         "description": "A number distribution: d32 = Σn·d³ / Σn·d² is computed from it."})
 
     RULES = (exactly_one("d32_um", "distribution", "Give exactly one of 'd32_um' or 'distribution'."),)
@@ -44,18 +44,18 @@ class AreaGivenSchema(Schema):
 
 class InterfaceSurfactantSchema(IngredientRefSchema):
     mole_fraction = Number(exclusive_minimum=0, maximum=1, metadata={"description": "Its mole fraction in the blend; needed for each member of a blend."})
-    area_per_molecule = fields.Nested(AreaGivenSchema, metadata={"description": "Overrides the registry's, with the interface it was measured at."})
+    area_per_molecule = Nested(AreaGivenSchema, metadata={"description": "Overrides the registry's, with the interface it was measured at."})
     molar_mass_g_per_mol = Number(minimum=40, maximum=1e6, metadata={"description": "Overrides the registry's (a lot's certificate)."})
     cmc_mmol_per_l = Number(exclusive_minimum=0, maximum=1000, metadata={"description": "Overrides the registry's critical micelle concentration."})
 
 
 class InterfaceEstimateRequestSchema(RuleChecks):
-    dispersed_phase = fields.Nested(PhaseSchema, required=True, metadata={"description": "The dispersed phase (the oil of an O/W emulsion)."})
-    continuous_phase = fields.Nested(PhaseSchema, required=True, metadata={"description": "The continuous phase (e.g. `purified-water`)."})
-    droplets = fields.Nested(DropletsSchema, required=True)
-    surfactants = BoundedList(fields.Nested(InterfaceSurfactantSchema), required=True, min_items=1, max_items=MAX_SURFACTANTS)
+    dispersed_phase = Nested(PhaseSchema, required=True, metadata={"description": "The dispersed phase (the oil of an O/W emulsion)."})
+    continuous_phase = Nested(PhaseSchema, required=True, metadata={"description": "The continuous phase (e.g. `purified-water`)."})
+    droplets = Nested(DropletsSchema, required=True)
+    surfactants = BoundedList(Nested(InterfaceSurfactantSchema), required=True, min_items=1, max_items=MAX_SURFACTANTS)
     required_hlb = Number(minimum=0, exclusive_maximum=20, metadata={"description": "Required HLB of the dispersed phase: the practice formula's minimum is then given beside."})
-    surfactant_density = fields.Nested(DensitySchema, metadata={"description": "The blend's density for the practice formula; default from the members' registry densities."})
+    surfactant_density = Nested(DensitySchema, metadata={"description": "The blend's density for the practice formula; default from the members' registry densities."})
     strict = Boolean(metadata={"description": "Refuse registry values not yet checked against their source (strict mode). A service running in strict mode is strict whatever this says."})
 
 
@@ -86,7 +86,7 @@ class InterfacePartSchema(Schema):
     dissolved_g = NullableNumber(required=True, metadata={"description": "Dissolved in the continuous phase at the CMC; null when left out."})
     total_g = fields.Float(required=True)
     g_per_100g = NullableNumber(required=True, metadata={"description": "Per 100 g of emulsion; null when the dispersed phase's mass is unknown."})
-    members = fields.List(fields.Nested(InterfaceMemberSchema), required=True)
+    members = fields.List(Nested(InterfaceMemberSchema), required=True)
     assumptions = fields.List(fields.String(), required=True)
 
 
@@ -102,8 +102,8 @@ class PracticePartSchema(Schema):
 
 
 class InterfaceResultSchema(Schema):
-    interface_estimate = fields.Nested(InterfacePartSchema, required=True)
-    practice_estimate = fields.Nested(PracticePartSchema, required=True, allow_none=True, metadata={
+    interface_estimate = Nested(InterfacePartSchema, required=True)
+    practice_estimate = Nested(PracticePartSchema, required=True, allow_none=True, metadata={
         "description": "The practice formula's minimum (POST /v1/emulsifier/minimum) for the same emulsion; null without `required_hlb`."})
     emulsion_mass_g = NullableNumber(required=True)
     basis = fields.String(required=True)

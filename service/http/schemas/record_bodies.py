@@ -6,7 +6,7 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields
 
-from service.http.schemas.fields import Boolean, BoundedList, FullMatch, Number, ingredient_id, one_of, text
+from service.http.schemas.fields import Boolean, BoundedList, FullMatch, Nested, Number, ingredient_id, one_of, text
 from service.http.schemas.responses import AmountOutSchema, CitationSchema, answer
 from service.http.schemas.amounts_taken_bodies import MAX_ROWS, AmountsTakenResultSchema, TakenSchema
 from service.http.schemas.common import MassSchema
@@ -44,7 +44,7 @@ class PreparationSchema(Schema):
     description = text(240, metadata={"description": "Physical description of the finished preparation (what the appearance check expects)."})
     water_activity = Number(minimum=0, maximum=1, metadata={"description": "A measured water activity; decides aqueous (at or above the registry's threshold) or not."})
     preserved = Boolean(metadata={"description": "Default: preserved when a component is marked preservative. true needs one marked."})
-    ph_range = fields.Nested(PhRangeSchema, metadata={"description": "The pH the quality check expects."})
+    ph_range = Nested(PhRangeSchema, metadata={"description": "The pH the quality check expects."})
 
 
 class RecordComponentSchema(RuleChecks):
@@ -69,14 +69,14 @@ class CompoundingSchema(Schema):
 
 
 class RecordRequestSchema(Schema):
-    worksheet = fields.Nested(WorksheetRequestSchema, required=True, metadata={"description": "The worksheet request, as for /v1/worksheets."})
-    preparation = fields.Nested(PreparationSchema, required=True)
-    components = BoundedList(fields.Nested(RecordComponentSchema), max_items=MAX_ROWS,
+    worksheet = Nested(WorksheetRequestSchema, required=True, metadata={"description": "The worksheet request, as for /v1/worksheets."})
+    preparation = Nested(PreparationSchema, required=True)
+    components = BoundedList(Nested(RecordComponentSchema), max_items=MAX_ROWS,
                              metadata={"description": "Supplier, lot and expiry of each worksheet component; one missing is a field to fill."})
-    compounding = fields.Nested(CompoundingSchema, required=True)
-    taken = BoundedList(fields.Nested(TakenSchema), max_items=MAX_ROWS, metadata={
+    compounding = Nested(CompoundingSchema, required=True)
+    taken = BoundedList(Nested(TakenSchema), max_items=MAX_ROWS, metadata={
         "description": "The amounts actually weighed or measured, as for /v1/worksheets/amounts-taken; checked and shown in the record."})
-    final_weight = fields.Nested(MassSchema, metadata={"description": "The finished preparation, weighed: judged in the final-weight check."})
+    final_weight = Nested(MassSchema, metadata={"description": "The finished preparation, weighed: judged in the final-weight check."})
     final_weight_tolerance_percent = Number(minimum=0.1, maximum=50, metadata={"description": "Default: the balance's acceptable error (common practice)."})
     paper = one_of(PAPERS, metadata={"description": "Page size of the PDF form; default A4."})
     strict = Boolean(metadata={"description": "Refuse unverified registry values (the beyond-use category included)."})
@@ -84,7 +84,7 @@ class RecordRequestSchema(Schema):
 
 # The answer
 class ProvenanceOutSchema(Schema):
-    source = fields.Nested(CitationSchema, required=True)
+    source = Nested(CitationSchema, required=True)
     locator = fields.String(required=True, allow_none=True)
     status = fields.String(required=True)
     recalled_from_memory = fields.Boolean(required=True)
@@ -121,7 +121,7 @@ class BudRuleSchema(ProvenanceOutSchema):
 
 class BudTableRulesSchema(ProvenanceOutSchema):
     water_activity_threshold = fields.Float(required=True)
-    rules = fields.List(fields.Nested(BudRuleSchema), required=True, metadata={"description": "The rules over every category, each with its provenance."})
+    rules = fields.List(Nested(BudRuleSchema), required=True, metadata={"description": "The rules over every category, each with its provenance."})
 
 
 class BeyondUseDateSchema(Schema):
@@ -131,15 +131,15 @@ class BeyondUseDateSchema(Schema):
     rule = fields.String(required=True)
     counted_from = fields.String(required=True)
     limit_date = fields.String(required=True)
-    earliest_component_expiry = fields.Nested(ExpiryOutSchema, required=True, allow_none=True)
+    earliest_component_expiry = Nested(ExpiryOutSchema, required=True, allow_none=True)
     components_without_expiry = fields.List(fields.String(), required=True)
-    category = fields.Nested(BudCategorySchema, required=True)
-    decisions = fields.Nested(BudDecisionsSchema, required=True)
+    category = Nested(BudCategorySchema, required=True)
+    decisions = Nested(BudDecisionsSchema, required=True)
     aqueous_implication = fields.String(required=True, allow_none=True)
     storage = fields.String(required=True)
     storage_basis = fields.String(required=True)
     storage_text = fields.String(required=True)
-    table_rules = fields.Nested(BudTableRulesSchema, required=True)
+    table_rules = Nested(BudTableRulesSchema, required=True)
     caution = fields.String(required=True)
 
 
@@ -151,8 +151,8 @@ class RecordComponentOutSchema(Schema):
     role = fields.String(required=True)
     percent_w_w = fields.Float(required=True)
     mass_g = fields.Float(required=True)
-    mass = fields.Nested(AmountOutSchema, required=True)
-    volume = fields.Nested(AmountOutSchema, required=True, allow_none=True)
+    mass = Nested(AmountOutSchema, required=True)
+    volume = Nested(AmountOutSchema, required=True, allow_none=True)
     how = fields.String(required=True)
     supplier = fields.String(required=True, allow_none=True)
     lot = fields.String(required=True, allow_none=True)
@@ -172,7 +172,7 @@ class StepSchema(Schema):
 
 
 class ProcedureSchema(Schema):
-    steps = fields.List(fields.Nested(StepSchema), required=True)
+    steps = fields.List(Nested(StepSchema), required=True)
     oil_phase_c = fields.Float(required=True, allow_none=True)
     aqueous_phase_c = fields.Float(required=True, allow_none=True)
     heated = fields.Boolean(required=True)
@@ -195,9 +195,9 @@ class PlaceholderSchema(Schema):
 
 
 class LabelSchema(Schema):
-    lines = fields.List(fields.Nested(LabelLineSchema), required=True)
-    auxiliary = fields.List(fields.Nested(AuxiliarySchema), required=True)
-    placeholders = fields.List(fields.Nested(PlaceholderSchema), required=True)
+    lines = fields.List(Nested(LabelLineSchema), required=True)
+    auxiliary = fields.List(Nested(AuxiliarySchema), required=True)
+    placeholders = fields.List(Nested(PlaceholderSchema), required=True)
 
 
 class QualityCheckSchema(Schema):
@@ -217,8 +217,8 @@ class ElementSchema(Schema):
 
 
 class RequiredElementsSchema(ProvenanceOutSchema):
-    master_formulation_record = fields.List(fields.Nested(ElementSchema), required=True)
-    compounding_record = fields.List(fields.Nested(ElementSchema), required=True)
+    master_formulation_record = fields.List(Nested(ElementSchema), required=True)
+    compounding_record = fields.List(Nested(ElementSchema), required=True)
     to_fill = fields.List(fields.String(), required=True)
     to_fill_before_compounding = fields.List(fields.String(), required=True, metadata={"description": "What the request could have given and did not."})
     note = fields.String(required=True)
@@ -248,18 +248,18 @@ class RecordCheckSchema(CheckSchema):
 
 
 class RecordResultSchema(Schema):
-    preparation = fields.Nested(RecordPreparationOutSchema, required=True)
-    compounding = fields.Nested(CompoundingOutSchema, required=True)
-    components = fields.List(fields.Nested(RecordComponentOutSchema), required=True)
-    beyond_use_date = fields.Nested(BeyondUseDateSchema, required=True)
-    procedure = fields.Nested(ProcedureSchema, required=True)
-    label = fields.Nested(LabelSchema, required=True)
-    quality_checks = fields.List(fields.Nested(QualityCheckSchema), required=True)
-    checks = fields.List(fields.Nested(RecordCheckSchema), required=True)
-    worksheet = fields.Nested(WorksheetResultSchema, required=True)
-    amounts_taken = fields.Nested(AmountsTakenResultSchema, required=True, allow_none=True, metadata={"description": "The amounts taken, checked, where the request gave them."})
+    preparation = Nested(RecordPreparationOutSchema, required=True)
+    compounding = Nested(CompoundingOutSchema, required=True)
+    components = fields.List(Nested(RecordComponentOutSchema), required=True)
+    beyond_use_date = Nested(BeyondUseDateSchema, required=True)
+    procedure = Nested(ProcedureSchema, required=True)
+    label = Nested(LabelSchema, required=True)
+    quality_checks = fields.List(Nested(QualityCheckSchema), required=True)
+    checks = fields.List(Nested(RecordCheckSchema), required=True)
+    worksheet = Nested(WorksheetResultSchema, required=True)
+    amounts_taken = Nested(AmountsTakenResultSchema, required=True, allow_none=True, metadata={"description": "The amounts taken, checked, where the request gave them."})
     paper = fields.String(required=True)
-    required_elements = fields.Nested(RequiredElementsSchema, required=True)
+    required_elements = Nested(RequiredElementsSchema, required=True)
     complete = fields.Boolean(required=True, metadata={"description": "Ready to compound: every element the request can give is given and every record check passed; the quality results are filled in at the bench."})
 
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 from marshmallow import Schema, fields
 
 from service.http.schemas.common import AbsoluteAmountSchema, BatchSizeSchema, IngredientRefSchema, MassSchema
-from service.http.schemas.fields import Boolean, Number, ingredient_id, one_of, text
+from service.http.schemas.fields import Boolean, Nested, Number, ingredient_id, one_of, text
 from service.http.schemas.responses import AmountOutSchema, answer
 from service.http.schemas.rules import RuleChecks, at_least_one, at_most_one, exactly_one
 from service.usecases.gum_emulsions import OIL_KINDS
@@ -20,11 +20,11 @@ class SoapRequestSchema(RuleChecks):
     material_kind = one_of(MATERIAL_KINDS, metadata={"description": "`fatty_acid`: the whole material is acid; `material_with_free_acids`: a wax or fat whose free acids are a part. "
                                                      "Default: from the registry (a record with a molecular formula is a fatty acid), else fatty_acid."})
     free_acid_molar_mass_g_per_mol = Number(minimum=40, maximum=2000, metadata={"description": "The free acids' mean molar mass; default for a fatty acid 1000·M(KOH)/AV. Needed for a wax's soap mass."})
-    acid_mass = fields.Nested(MassSchema, required=True, metadata={"description": "Mass of the fatty acid or wax in the batch."})
+    acid_mass = Nested(MassSchema, required=True, metadata={"description": "Mass of the fatty acid or wax in the batch."})
     base = one_of(ALKALI_IDS, required=True, metadata={"description": "The alkali, by registry id."})
     base_assay_percent = Number(exclusive_minimum=0, maximum=100, metadata={"description": "The alkali's assay, % (default 100)."})
     neutralised_fraction = Number(exclusive_minimum=0, maximum=1, metadata={"description": "Share of the free acid to neutralise, above 0 and at most 1."})
-    base_mass = fields.Nested(MassSchema, metadata={"description": "Mass of alkali (as weighed) instead of a fraction: the fraction it neutralises is found."})
+    base_mass = Nested(MassSchema, metadata={"description": "Mass of alkali (as weighed) instead of a fraction: the fraction it neutralises is found."})
     strict = Boolean()
 
     RULES = (
@@ -73,16 +73,16 @@ class CoproductSchema(Schema):
 
 
 class SoapResultSchema(Schema):
-    acid = fields.Nested(SoapAcidSchema, required=True)
-    base = fields.Nested(SoapBaseSchema, required=True)
+    acid = Nested(SoapAcidSchema, required=True)
+    base = Nested(SoapBaseSchema, required=True)
     neutralised_fraction = fields.Float(required=True)
     neutralised_percent = fields.Float(required=True)
     acid_neutralised_mol = fields.Float(required=True)
     acid_neutralised_g = NullableNumber(required=True)
     free_acid_mol = fields.Float(required=True)
     free_acid_g = NullableNumber(required=True)
-    soap = fields.Nested(SoapFormedSchema, required=True)
-    coproducts = fields.List(fields.Nested(CoproductSchema), required=True)
+    soap = Nested(SoapFormedSchema, required=True)
+    coproducts = fields.List(Nested(CoproductSchema), required=True)
     reaction = fields.String(required=True)
     ionic_class = fields.String(required=True, metadata={"description": "anionic: the soap counts as an anionic emulsifier."})
 
@@ -94,9 +94,9 @@ class SoapInputsSchema(Schema):
 
 class GumEmulsionRequestSchema(RuleChecks):
     oil_kind = one_of(OIL_KINDS, required=True, metadata={"description": "fixed (4:2:1), mineral (3:2:1) or volatile (2:2:1)."})
-    oil = fields.Nested(IngredientRefSchema, required=True)
-    oil_amount = fields.Nested(AbsoluteAmountSchema, required=True, metadata={"description": "A volume, or a mass (then the oil's density is needed)."})
-    final = fields.Nested(BatchSizeSchema, metadata={"description": "The final volume (water q.s.) or mass (the rest of the water weighed)."})
+    oil = Nested(IngredientRefSchema, required=True)
+    oil_amount = Nested(AbsoluteAmountSchema, required=True, metadata={"description": "A volume, or a mass (then the oil's density is needed)."})
+    final = Nested(BatchSizeSchema, metadata={"description": "The final volume (water q.s.) or mass (the rest of the water weighed)."})
     strict = Boolean()
 
 
@@ -132,7 +132,7 @@ class PrimaryEmulsionSchema(Schema):
 
 
 class RestOfWaterSchema(Schema):
-    final = fields.Nested(AmountOutSchema, required=True, allow_none=True)
+    final = Nested(AmountOutSchema, required=True, allow_none=True)
     mass_g = NullableNumber(required=True, metadata={"description": "To a final mass: the water to weigh in; null otherwise."})
     quantum_satis = fields.Boolean(required=True, metadata={"description": "To a final volume: water q.s. in a calibrated vessel."})
 
@@ -143,12 +143,12 @@ class GumStepsSchema(Schema):
 
 
 class GumEmulsionResultSchema(Schema):
-    oil = fields.Nested(GumOilSchema, required=True)
-    gum = fields.Nested(GumNameSchema, required=True)
-    proportions = fields.Nested(GumProportionsSchema, required=True)
-    primary_emulsion = fields.Nested(PrimaryEmulsionSchema, required=True)
-    rest_of_water = fields.Nested(RestOfWaterSchema, required=True)
-    steps = fields.Nested(GumStepsSchema, required=True)
+    oil = Nested(GumOilSchema, required=True)
+    gum = Nested(GumNameSchema, required=True)
+    proportions = Nested(GumProportionsSchema, required=True)
+    primary_emulsion = Nested(PrimaryEmulsionSchema, required=True)
+    rest_of_water = Nested(RestOfWaterSchema, required=True)
+    steps = Nested(GumStepsSchema, required=True)
 
 
 class GumInputsSchema(Schema):

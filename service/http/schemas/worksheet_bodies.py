@@ -10,7 +10,7 @@ from service.http.schemas.common import (
     EMULSION_TYPES, IONIC_CLASSES, AmountSchema, BalanceCapacitySchema, BatchSizeSchema, DensitySchema, GraduateVolumeSchema,
     IngredientRefSchema, ReadabilitySchema, SensitivitySchema, SubdivisionSchema,
 )
-from service.http.schemas.fields import Boolean, BoundedList, Integer, Number, one_of
+from service.http.schemas.fields import Boolean, BoundedList, Integer, Nested, Number, one_of
 from service.http.schemas.rules import Rule, RuleChecks, at_most_one, exactly_one, requires, share_or_flag
 from service.units import MASS_UNITS, VOLUME_UNITS
 from service.http.schemas.enums import enum_field
@@ -21,7 +21,7 @@ MAX_INGREDIENTS = 40
 
 class FormulaIngredientSchema(IngredientRefSchema):
     phase = one_of(PHASES, required=True, metadata={"description": "oil, aqueous, or other (a preservative, an active ingredient)."})
-    share = fields.Nested(AmountSchema, metadata={"description": "% w/w of the formula, or an amount for the batch (a mass; a volume for a liquid with a known density). Not with qs."})
+    share = Nested(AmountSchema, metadata={"description": "% w/w of the formula, or an amount for the batch (a mass; a volume for a liquid with a known density). Not with qs."})
     qs = Boolean(metadata={"description": "true for the one vehicle made up to the batch (q.s.). A formula whose shares, emulsifier included, add up to 100 % w/w needs none: its largest share then takes the rounding residue."})
     counts_toward_rhlb = Boolean(metadata={"description": "For an oil-phase ingredient: false leaves it out of the required-HLB mean. Default true."})
 
@@ -34,8 +34,8 @@ class FixedEmulsifierSchema(IngredientRefSchema):
 
 class MinimumEstimateSchema(Schema):
     margin_percent = Number(minimum=0, maximum=500, metadata={"description": "Added to the estimate, % of it. Default 25 (the estimate is a rough lower bound); the answer says when the default was used."})
-    surfactant_density = fields.Nested(DensitySchema, metadata={"description": "Density of the surfactant blend; default from the pair's densities."})
-    dispersed_phase_density = fields.Nested(DensitySchema, metadata={"description": "Default from the dispersed phase's densities."})
+    surfactant_density = Nested(DensitySchema, metadata={"description": "Density of the surfactant blend; default from the pair's densities."})
+    dispersed_phase_density = Nested(DensitySchema, metadata={"description": "Default from the dispersed phase's densities."})
 
 
 OFF_SCALE_DESCRIPTION = "true also considers surfactants with an HLB above 20, off Griffin's nonionic scale (the poloxamers); default false."
@@ -70,34 +70,34 @@ EMULSIFIER_RULES = (
 
 
 class EmulsifierSchema(RuleChecks):
-    pair = BoundedList(fields.Nested(IngredientRefSchema), exact_items=2,
+    pair = BoundedList(Nested(IngredientRefSchema), exact_items=2,
                        metadata={"description": "The two surfactants whose proportions are solved for the oil phase's required HLB."})
-    propose = fields.Nested(ProposeSchema, metadata={"description": "Let the service choose the top-ranked candidate pair."})
-    fixed = BoundedList(fields.Nested(FixedEmulsifierSchema), max_items=10,
+    propose = Nested(ProposeSchema, metadata={"description": "Let the service choose the top-ranked candidate pair."})
+    fixed = BoundedList(Nested(FixedEmulsifierSchema), max_items=10,
                         metadata={"description": "Surfactants at fixed % w/w of the formula (alone, or beside the pair)."})
     target_hlb = Number(minimum=0, maximum=60, metadata={"description": "Default: the oil phase's required HLB."})
     total_percent_w_w = Number(exclusive_minimum=0, exclusive_maximum=100, metadata={"description": "The whole emulsifier system, % w/w of the formula."})
-    minimum_estimate = fields.Nested(MinimumEstimateSchema, metadata={"description": "Size the emulsifier by the minimum estimate plus a margin."})
+    minimum_estimate = Nested(MinimumEstimateSchema, metadata={"description": "Size the emulsifier by the minimum estimate plus a margin."})
 
     RULES = EMULSIFIER_RULES
 
 
 class GraduateSchema(Schema):
-    capacity = fields.Nested(GraduateVolumeSchema, required=True)
-    subdivision = fields.Nested(SubdivisionSchema, metadata={"description": "Its smallest graduation; default capacity / 50."})
+    capacity = Nested(GraduateVolumeSchema, required=True)
+    subdivision = Nested(SubdivisionSchema, metadata={"description": "Its smallest graduation; default capacity / 50."})
     conical = Boolean(metadata={"description": "A conical graduate; one under 25 mL is not used. Default false (cylindrical)."})
 
 
 class WorksheetBalanceSchema(Schema):
-    sensitivity = fields.Nested(SensitivitySchema, metadata={"description": "Default 6 mg (Class A prescription balance)."})
+    sensitivity = Nested(SensitivitySchema, metadata={"description": "Default 6 mg (Class A prescription balance)."})
     acceptable_error_percent = Number(minimum=0.1, maximum=50, metadata={"description": "Default 5."})
-    readability = fields.Nested(ReadabilitySchema, metadata={"description": "What the balance reads to; masses are rounded to it. Default 10 mg."})
-    capacity = fields.Nested(BalanceCapacitySchema, metadata={"description": "The largest load it weighs; a heavier row, or a batch made up to weight on it, is flagged. Default 120 g (Class A prescription balance)."})
+    readability = Nested(ReadabilitySchema, metadata={"description": "What the balance reads to; masses are rounded to it. Default 10 mg."})
+    capacity = Nested(BalanceCapacitySchema, metadata={"description": "The largest load it weighs; a heavier row, or a batch made up to weight on it, is flagged. Default 120 g (Class A prescription balance)."})
 
 
 class EquipmentSchema(Schema):
-    balance = fields.Nested(WorksheetBalanceSchema)
-    graduates = BoundedList(fields.Nested(GraduateSchema), max_items=20,
+    balance = Nested(WorksheetBalanceSchema)
+    graduates = BoundedList(Nested(GraduateSchema), max_items=20,
                             metadata={"description": "Graduates at hand. Default cylindrical 10, 25, 50, 100, 250, 500 and 1000 mL."})
 
 
@@ -108,23 +108,23 @@ class OutputUnitsSchema(Schema):
 
 class WorksheetRequestSchema(Schema):
     emulsion_type = enum_field("EmulsionType", request=True, required=True)
-    batch = fields.Nested(BatchSizeSchema, required=True, metadata={"description": "Batch size, a mass or a volume."})
-    ingredients = BoundedList(fields.Nested(FormulaIngredientSchema), required=True, min_items=2, max_items=MAX_INGREDIENTS)
-    emulsifier = fields.Nested(EmulsifierSchema, required=True)
-    equipment = fields.Nested(EquipmentSchema)
-    output_units = fields.Nested(OutputUnitsSchema)
+    batch = Nested(BatchSizeSchema, required=True, metadata={"description": "Batch size, a mass or a volume."})
+    ingredients = BoundedList(Nested(FormulaIngredientSchema), required=True, min_items=2, max_items=MAX_INGREDIENTS)
+    emulsifier = Nested(EmulsifierSchema, required=True)
+    equipment = Nested(EquipmentSchema)
+    output_units = Nested(OutputUnitsSchema)
     strict = Boolean(metadata={"description": "Refuse unverified registry values."})
 
 
 class RescaleRequestSchema(Schema):
-    worksheet = fields.Nested(WorksheetRequestSchema, required=True, metadata={"description": "The worksheet request to rescale (as sent, or as echoed in an answer's inputs)."})
-    batch = fields.Nested(BatchSizeSchema, required=True, metadata={"description": "The new batch size."})
+    worksheet = Nested(WorksheetRequestSchema, required=True, metadata={"description": "The worksheet request to rescale (as sent, or as echoed in an answer's inputs)."})
+    batch = Nested(BatchSizeSchema, required=True, metadata={"description": "The new batch size."})
 
 
 class CandidateRequestSchema(RuleChecks):
     target_hlb = Number(minimum=0, maximum=60)
     emulsion_type = enum_field("EmulsionType", request=True)
-    oil_phase = BoundedList(fields.Nested(OilComponentSchema), min_items=1, max_items=30,
+    oil_phase = BoundedList(Nested(OilComponentSchema), min_items=1, max_items=30,
                             metadata={"description": "Instead of target_hlb: the oil phase whose required HLB is the target."})
     ionic_classes = BoundedList(one_of(IONIC_CLASSES), min_items=1, max_items=4, metadata={"description": "Default nonionic only."})
     limit = Integer(minimum=1, maximum=50, metadata={"description": "Default 10."})
@@ -162,7 +162,7 @@ class MeasureSchema(Schema):
     how = fields.String(required=True, metadata={"description": "weigh, graduate, or pipette_or_syringe."})
     graduate_ml = fields.Float(required=True, allow_none=True)
     volume_ml_rounded = fields.Float(required=True, allow_none=True, metadata={"description": "Rounded to the graduate's subdivision."})
-    aliquot = fields.Nested(AliquotSchema, required=True, allow_none=True, metadata={"description": "For an amount below the minimum weighable quantity: the aliquot method worked out."})
+    aliquot = Nested(AliquotSchema, required=True, allow_none=True, metadata={"description": "For an amount below the minimum weighable quantity: the aliquot method worked out."})
     why = fields.String(required=True)
 
 
@@ -176,11 +176,11 @@ class WorksheetRowSchema(Schema):
     mass_g_unrounded = fields.Float(required=True, metadata={"description": "The formula's mass before rounding; every check runs on it."})
     mass_g = fields.Float(required=True, metadata={"description": "Rounded to the balance's readability; the q.s. vehicle takes the rounding residue."})
     rounding_error_percent = fields.Float(required=True, metadata={"description": "(mass_g - mass_g_unrounded) / mass_g_unrounded, %; beyond the acceptable error it is flagged."})
-    mass = fields.Nested(AmountOutSchema, required=True, metadata={"description": "The same mass in the unit asked."})
+    mass = Nested(AmountOutSchema, required=True, metadata={"description": "The same mass in the unit asked."})
     volume_ml = fields.Float(required=True, allow_none=True)
-    volume = fields.Nested(AmountOutSchema, required=True, allow_none=True)
-    measure = fields.Nested(MeasureSchema, required=True)
-    checks = fields.List(fields.Nested(CheckSchema), required=True)
+    volume = Nested(AmountOutSchema, required=True, allow_none=True)
+    measure = Nested(MeasureSchema, required=True)
+    checks = fields.List(Nested(CheckSchema), required=True)
 
 
 class EmulsifierOutSchema(Schema):
@@ -188,7 +188,7 @@ class EmulsifierOutSchema(Schema):
     proposed = fields.Boolean(required=True)
     target_hlb = fields.Float(required=True, allow_none=True)
     hlb_reached = fields.Float(required=True)
-    hlb_range = fields.Nested(RangeSchema, required=True)
+    hlb_range = Nested(RangeSchema, required=True)
     total_percent_w_w = fields.Float(required=True)
     basis = fields.String(required=True)
     minimum_estimate_g_per_100g = fields.Float(required=True, allow_none=True)
@@ -197,8 +197,8 @@ class EmulsifierOutSchema(Schema):
 class OilPhaseOutSchema(Schema):
     required_hlb = fields.Float(required=True, metadata={"description": "Rounded to 0.1: the figure the pair is solved for."})
     required_hlb_unrounded = fields.Float(required=True)
-    range = fields.Nested(RangeSchema, required=True, metadata={"description": "Values flagged doubtful left out."})
-    range_with_doubtful = fields.Nested(RangeSchema, required=True, allow_none=True)
+    range = Nested(RangeSchema, required=True, metadata={"description": "Values flagged doubtful left out."})
+    range_with_doubtful = Nested(RangeSchema, required=True, allow_none=True)
     percent_w_w = fields.Float(required=True)
 
 
@@ -217,8 +217,8 @@ class GraduateOutSchema(Schema):
 
 
 class EquipmentOutSchema(Schema):
-    balance = fields.Nested(BalanceOutSchema, required=True)
-    graduates = fields.List(fields.Nested(GraduateOutSchema), required=True)
+    balance = Nested(BalanceOutSchema, required=True)
+    graduates = fields.List(Nested(GraduateOutSchema), required=True)
     defaults_assumed = fields.List(fields.String(), required=True)
 
 
@@ -246,11 +246,11 @@ class ProcessingTemperatureSchema(Schema):
     heated = fields.Boolean(required=True)
     set_by = enum_field("HeatingSetBy", required=True)
     note = fields.String(required=True, metadata={"description": "What set it, in words, with the melting range's source."})
-    melting_ranges = fields.List(fields.Nested(MeltingRangeUsedSchema), required=True, metadata={
+    melting_ranges = fields.List(Nested(MeltingRangeUsedSchema), required=True, metadata={
         "description": "The melting ranges used: every solid or semisolid of the phases that has one."})
     without_melting_range = fields.List(fields.String(), required=True, metadata={
         "description": "Solids and semisolids with no melting range on record: heat until melted."})
-    unverified_left_out = fields.List(fields.Nested(MeltingRangeUsedSchema), required=True, metadata={
+    unverified_left_out = fields.List(Nested(MeltingRangeUsedSchema), required=True, metadata={
         "description": "Strict mode: melting ranges on record left out as unverified (each warned about, with the temperature it would set)."})
 
 
@@ -259,17 +259,17 @@ class WorksheetResultSchema(Schema):
     batch_mass_g = fields.Float(required=True)
     batch_volume_ml = fields.Float(required=True, allow_none=True)
     checks_failed = fields.Integer(required=True, metadata={"description": "How many checks failed, the worksheet's and every row's; the printed worksheet opens with a banner when any did."})
-    oil_phase = fields.Nested(OilPhaseOutSchema, required=True)
-    dispersed_phase = fields.Nested(DispersedPhaseSchema, required=True)
-    emulsifier = fields.Nested(EmulsifierOutSchema, required=True)
-    rows = fields.List(fields.Nested(WorksheetRowSchema), required=True)
+    oil_phase = Nested(OilPhaseOutSchema, required=True)
+    dispersed_phase = Nested(DispersedPhaseSchema, required=True)
+    emulsifier = Nested(EmulsifierOutSchema, required=True)
+    rows = fields.List(Nested(WorksheetRowSchema), required=True)
     processing_temperature_c = fields.Float(required=True, allow_none=True, metadata={
         "description": "The phases' processing temperature, degC (null: a cold process); what set it is processing_temperature."})
-    processing_temperature = fields.Nested(ProcessingTemperatureSchema, required=True)
-    totals = fields.Nested(TotalsSchema, required=True)
-    equipment = fields.Nested(EquipmentOutSchema, required=True)
-    checks = fields.List(fields.Nested(GlobalCheckSchema), required=True)
-    rescaled_from = fields.Nested(AmountOutSchema, required=True, allow_none=True, metadata={"description": "The batch size of the worksheet this one was rescaled from."})
+    processing_temperature = Nested(ProcessingTemperatureSchema, required=True)
+    totals = Nested(TotalsSchema, required=True)
+    equipment = Nested(EquipmentOutSchema, required=True)
+    checks = fields.List(Nested(GlobalCheckSchema), required=True)
+    rescaled_from = Nested(AmountOutSchema, required=True, allow_none=True, metadata={"description": "The batch size of the worksheet this one was rescaled from."})
 
 
 class WorksheetInputsSchema(Schema):
@@ -287,8 +287,8 @@ class CandidateMemberSchema(Schema):
 
 class CandidateSchema(Schema):
     rank = fields.Integer(required=True)
-    low = fields.Nested(CandidateMemberSchema, required=True)
-    high = fields.Nested(CandidateMemberSchema, required=True)
+    low = Nested(CandidateMemberSchema, required=True)
+    high = Nested(CandidateMemberSchema, required=True)
     same_fatty_chain = fields.Boolean(required=True)
     matches_oil_chain = fields.Boolean(required=True, metadata={"description": "Both members share the oil phase's fatty chain."})
     ionic_members = fields.Integer(required=True)
@@ -303,8 +303,8 @@ class CandidateResultSchema(Schema):
     rule = fields.String(required=True)
     considered = fields.Integer(required=True)
     oil_fatty_chain = fields.String(required=True, allow_none=True, metadata={"description": "The oil phase's fatty chain where the registry can tell (more than half the oil phase by mass); null otherwise."})
-    candidates = fields.List(fields.Nested(CandidateSchema), required=True)
-    single_surfactants = fields.List(fields.Nested(SingleSurfactantSchema), required=True,
+    candidates = fields.List(Nested(CandidateSchema), required=True)
+    single_surfactants = fields.List(Nested(SingleSurfactantSchema), required=True,
                                      metadata={"description": "Emulsifying agents that meet the target on their own, within single_tolerance_hlb."})
     single_tolerance_hlb = fields.Float(required=True)
 
