@@ -9,8 +9,12 @@ does not start with test_). Every part prints as it goes:
               ratio being the median of the rounds' ratios
   startup     exec of gunicorn to the first answered /healthz, with the shipped
               registry and with one of 1000 surfactants (tests/benchmarks/big_registry.py)
-  memory      VmRSS of each worker after warm-up and, with --long N, after N more
-              requests (worker recycling off, so that the same workers are measured)
+  memory      each worker's memory after warm-up and, with --long N, after N more
+              requests (worker recycling off, so that the same workers are measured):
+              resident (RSS, pages shared with the master counted in full), unique
+              (USS, its private pages only) and proportional (PSS, shared pages split
+              between the processes that share them), from /proc/PID/smaps_rollup;
+              --leave-out solveBlend keeps an operation out of it
   pairs       candidate pairs in-process at the shipped registry and at 1000 surfactants
   inprocess   start-up costs and one request to each calculation through Flask's test
               client, and what a refusal of a 64 KiB body costs
@@ -273,6 +277,27 @@ def rss_mb(pid: int) -> float:
     raise RuntimeError(f"no VmRSS for {pid}")
 
 
+def memory_mb(pid: int) -> dict[str, float]:
+    """{"rss", "uss", "pss"} of a process in MB. A gunicorn worker forked from
+    a master that loaded the app (preload_app) shares the master's pages until
+    it writes to them: RSS counts them in each worker, USS in none, PSS in
+    shares. Only RSS where smaps_rollup cannot be read."""
+    try:
+        fields = {}
+        for line in Path(f"/proc/{pid}/smaps_rollup").read_text().splitlines()[1:]:
+            name, _, rest = line.partition(":")
+            fields[name] = int(rest.split()[0]) / 1024
+        return {"rss": fields["Rss"], "uss": fields["Private_Clean"] + fields["Private_Dirty"], "pss": fields["Pss"]}
+    except (OSError, KeyError, ValueError, IndexError):
+        return {"rss": rss_mb(pid)}
+
+
+def format_memory(mb: dict[str, float], before: dict[str, float] | None = None) -> str:
+    def one(key: str, name: str) -> str:
+        return f"{name} {mb[key]:.1f} MB" + (f" ({mb[key] - before[key]:+.1f})" if before and key in before else "")
+    return ", ".join(one(key, name) for key, name in (("rss", "RSS"), ("uss", "USS"), ("pss", "PSS")) if key in mb)
+
+
 # -- the table --------------------------------------------------------------
 
 def format_table(rows: list[dict]) -> str:
@@ -340,25 +365,28 @@ def part_startup(args, big_root: str) -> None:
 
 
 def part_memory(args) -> None:
-    print("\n## Resident memory per worker (VmRSS)")
+    left_out = [name.strip() for name in args.leave_out.split(",") if name.strip()]
+    print("\n## Memory per worker (RSS, USS, PSS)" + (f", {', '.join(left_out)} left out" if left_out else ""))
     # Recycling off (it is on in the configuration, every ~5000 requests), so
     # that the workers measured after the long run are the ones measured before.
     with Server(extra_args=("--max-requests", "0")) as server:
-        plans = [request_bytes(case, port=server.port) for case in cases()]
+        plans = [request_bytes(case, port=server.port) for case in cases()
+                 if not any(case.label.startswith(name + " ") for name in left_out)]
         for payload in plans * 20:
             one(server.port, payload)
-        before = {pid: rss_mb(pid) for pid in server.workers()}
-        print("after warm-up: " + ", ".join(f"worker {pid} {mb:.1f} MB" for pid, mb in before.items()))
+        before = {pid: memory_mb(pid) for pid in server.workers()}
+        print(f"master {server.proc.pid}: {format_memory(memory_mb(server.proc.pid))}")
+        print("after warm-up:\n" + "\n".join(f"  worker {pid}: {format_memory(mb)}" for pid, mb in before.items()))
         if args.long:
             start = time.perf_counter()
             per_case = max(1, args.long // len(plans))
             with multiprocessing.get_context("fork").Pool(args.clients) as pool:
                 pool.map(_long_client, [(server.port, plans, per_case // args.clients or 1)] * args.clients)
             sent = per_case // args.clients * args.clients * len(plans) or len(plans) * args.clients
-            after = {pid: rss_mb(pid) for pid in server.workers()}
+            after = {pid: memory_mb(pid) for pid in server.workers()}
             same = "same workers" if set(after) == set(before) else "the workers changed"
-            print(f"after {sent} more requests ({time.perf_counter() - start:.0f} s, {same}): "
-                  + ", ".join(f"worker {pid} {mb:.1f} MB ({mb - before.get(pid, mb):+.1f})" for pid, mb in after.items()))
+            print(f"after {sent} more requests ({time.perf_counter() - start:.0f} s, {same}):\n"
+                  + "\n".join(f"  worker {pid}: {format_memory(mb, before.get(pid))}" for pid, mb in after.items()))
 
 
 def _long_client(args) -> None:
@@ -445,6 +473,7 @@ def main(argv: list[str] | None = None) -> None:
     parser.add_argument("--clients", type=int, default=4, help="client processes, each with one connection")
     parser.add_argument("--fresh", action="store_true", help="a fresh connection per request instead of kept-alive ones")
     parser.add_argument("--long", type=int, default=0, help="memory: send this many more requests and measure again (e.g. 100000)")
+    parser.add_argument("--leave-out", default="", help="memory: operationIds kept out of the requests sent (e.g. solveBlend)")
     parser.add_argument("--match", default="", help="throughput: only the operations whose label holds this text")
     parser.add_argument("--pairs-repeat", type=int, default=20)
     args = parser.parse_args(argv)
