@@ -4,6 +4,7 @@
 Every setting from the environment is checked here, before gunicorn binds or
 forks: one that cannot work stops the start with one line (service/startup.py)."""
 import atexit
+import gc
 import glob
 import os
 import shutil
@@ -87,6 +88,16 @@ accesslog = None
 errorlog = "-"
 loglevel = _server.log_level
 logconfig_dict = _logs.logconfig(loglevel)
+
+
+def when_ready(server):
+    """The preloaded app's objects are moved out of the garbage collector's
+    reach before the workers fork: its passes would otherwise write to every
+    page they share with the master and make them each worker's own. Measured
+    (tests/benchmarks/bench_service.py --only memory, 30 000 requests): a
+    worker's private memory grew 12 MB without, 3 MB with."""
+    gc.collect()
+    gc.freeze()
 
 
 def child_exit(server, worker):

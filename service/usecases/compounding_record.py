@@ -9,13 +9,13 @@ import copy
 
 from registry import Registry
 from service.core.errors import UnverifiedValuesRefused
-from service.core.procedure import procedure
+from service.core.procedure import heating, procedure
 from service.usecases import methods, worksheet as worksheet_case
 from service.usecases.amounts_taken import check_amounts_taken, taken_warnings
 from service.usecases.answers import envelope, finding_warnings, tidy
 from service.usecases.beyond_use import beyond_use_block, component_expiry, parse_day
 from service.units import to_canonical
-from service.usecases.heating import HEATING_CODES, cloud_point_warnings, hlb_by_row, processing_row
+from service.usecases.heating import HEATING_CODES, cloud_point_warnings, hlb_by_row, processing_block, processing_row
 from service.usecases.provenance import ValuesUsed, source_block
 from service.usecases.record_parts import label, quality_checks, required_elements
 from service.usecases.resolution import Faults, enforce_strict, invalid
@@ -107,6 +107,11 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
         c.pop("label")
         c["expiry_read_as"] = parsed.date.isoformat() if parsed else None
     proc = procedure(result["emulsion_type"], proc_rows, result["batch_mass_g"])
+    # The worksheet inside the record shows the record's temperature: a
+    # component the record adds on cooling no longer sets it there either,
+    # so that the two never disagree on the page.
+    result["processing_temperature"] = processing_block(heating(proc_rows))
+    result["processing_temperature_c"] = result["processing_temperature"]["temperature_c"]
 
     checks_to_record = quality_checks(prep, any(r["phase"] == "aqueous" for r in rows), result["batch_mass_g"],
                                       result["equipment"]["balance"]["acceptable_error_percent"] if tolerance is None else tolerance, final_g)

@@ -166,3 +166,22 @@ def test_a_congealing_minimum_is_named_as_such(client, registry):
     note = body["result"]["processing_temperature"]["note"]
     assert "Stearic acid, congealing temperature not lower than 54 °C (a lower limit only)" in note
     assert "melting range up to 54" not in note
+
+
+def test_a_solid_the_record_adds_on_cooling_no_longer_sets_its_worksheet_s_temperature(client, registry):
+    # Carnauba wax (melting range up to 86 degC: 95 degC on a worksheet, test above) marked heat-sensitive in
+    # the record goes in on cooling, so the record's procedure heats to the usual 70 degC set by the other
+    # solids (common practice, no source); the worksheet printed inside the record must say the same.
+    assert _top_c(registry, "carnauba-wax") == 86.0
+    body = copy.deepcopy(DEMO)
+    body["worksheet"]["ingredients"].insert(0, _solid("carnauba-wax", 1))
+    alone = client.post(SHEET, json=body["worksheet"]).get_json()["result"]["processing_temperature_c"]
+    assert alone == 95.0
+    body["components"].append({"ingredient": "carnauba-wax", "heat_sensitive": True, "lot": "W1", "supplier": "S (demo)"})
+    r = client.post(RECORD, json=body)
+    assert r.status_code == 200, r.get_data(as_text=True)
+    result = r.get_json()["result"]
+    assert result["procedure"]["oil_phase_c"] == 70.0
+    sheet_heat = result["worksheet"]["processing_temperature"]
+    assert result["worksheet"]["processing_temperature_c"] == sheet_heat["temperature_c"] == 70.0
+    assert "Carnauba wax" not in [m["name"] for m in sheet_heat["melting_ranges"]]
