@@ -8,7 +8,6 @@ compounding record keeps); amounts_taken is the endpoint's use case, which
 recomputes the worksheet from its request and never trusts figures sent back."""
 from __future__ import annotations
 
-import copy
 
 from registry import Registry
 from service.core.deviations import Deviation, deviation, mass_g_from_volume, volume_ml_from_mass, yield_percent
@@ -182,7 +181,7 @@ def amounts_taken(data: dict, registry: Registry, strict: bool = False) -> dict:
     final = data.get("final_weight")
     final_g = to_canonical(final["value"], final["unit"])[1] if final else None
     result = check_amounts_taken(tidy(sheet.result), data["taken"], final_g, data.get("final_weight_tolerance_percent"))
-    return envelope(result, {"request": copy.deepcopy(data)}, methods.AMOUNTS_TAKEN, sheet.values_used, taken_warnings(result), registry,
+    return envelope(result, {"request": data}, methods.AMOUNTS_TAKEN, sheet.values_used, taken_warnings(result), registry,
                     strict=strict, extra_cautions=methods.AMOUNTS_TAKEN_CAUTIONS)
 
 

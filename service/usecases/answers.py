@@ -43,7 +43,7 @@ def _final(value):
     if kind is float:
         if value - value != 0.0:  # inf - inf and nan - nan are nan; a finite float gives 0.0
             raise _NonFinite
-        return float(f"{value:.10g}")
+        return value if value.is_integer() and -1e10 < value < 1e10 else float(f"{value:.10g}")
     if kind is dict:
         # Leaves are done here, without a call: most members of an answer
         # are strings, booleans, ints, None or floats (as above).
@@ -55,7 +55,9 @@ def _final(value):
             elif t is float:
                 if v - v != 0.0:
                     raise _NonFinite
-                out[k] = float(f"{v:.10g}")
+                # A whole number below 1e10 has at most 10 digits already:
+                # half an answer's floats are such, and formatting is dear.
+                out[k] = v if v.is_integer() and -1e10 < v < 1e10 else float(f"{v:.10g}")
             else:
                 out[k] = _final(v)
         return out

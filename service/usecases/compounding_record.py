@@ -5,7 +5,6 @@ USP <795>'s records with what is still to fill. Computed where it can be;
 left as fields to fill where only a person can fill them. No Flask here."""
 from __future__ import annotations
 
-import copy
 
 from registry import Registry
 from service.core.errors import UnverifiedValuesRefused
@@ -170,6 +169,6 @@ def record(data: dict, registry: Registry, strict: bool = False) -> dict:
                                         "detail": f"beyond-use category {category['id']} (source {category['source']['id']}) is unverified"}],
                                       "strict mode: the beyond-use category used is not yet checked against its source")
     enforce_strict(values_used, strict)
-    return envelope(out, {"request": copy.deepcopy(data)}, methods.COMPOUNDING_RECORD, values_used, warnings, registry, strict=strict,
+    return envelope(out, {"request": data}, methods.COMPOUNDING_RECORD, values_used, warnings, registry, strict=strict,
                     extra_cautions=methods.RECORD_CAUTIONS)
 

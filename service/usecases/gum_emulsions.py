@@ -3,7 +3,6 @@ when it is given by mass), the primary emulsion by kind of oil, the dry-gum
 and wet-gum methods as steps, and the rest of the water to final amount."""
 from __future__ import annotations
 
-import copy
 
 from registry import Registry
 from service.core import gum_emulsions as gum
@@ -81,7 +80,7 @@ def gum_emulsion(data: dict, registry: Registry, strict: bool = False) -> dict:
                           "mass_g": rest_g, "quantum_satis": final is not None and final.kind == "volume"},
         "steps": _steps(primary, gum_item.name, rest),
     }
-    return envelope(result, {"request": copy.deepcopy(data)}, methods.GUM_EMULSION, values_used, finding_warnings(findings), registry,
+    return envelope(result, {"request": data}, methods.GUM_EMULSION, values_used, finding_warnings(findings), registry,
                     strict=strict)
 
 

@@ -2,7 +2,6 @@
 are computed here, at the edge, with molmass."""
 from __future__ import annotations
 
-import copy
 
 from molmass import Formula, FormulaError
 
@@ -110,4 +109,4 @@ def estimate(data: dict, registry: Registry, strict: bool = False) -> dict:
     warnings += finding_warnings([core_findings.usual_range_finding(hlb, data.get("emulsion_type"), hlb_ranges(registry), "estimated HLB")])
     result = {"method": method, "hlb": hlb_display(hlb), "hlb_unrounded": unrounded(hlb), "scope": SCOPES[method],
               "weaknesses": weaknesses, "contributions": contributions, "molar_masses": molar}
-    return envelope(result, {"request": copy.deepcopy(data)}, chosen, values_used, warnings, registry, strict=strict)
+    return envelope(result, {"request": data}, chosen, values_used, warnings, registry, strict=strict)

@@ -1,7 +1,6 @@
 """The required-HLB test series: planning it, and reading its results."""
 from __future__ import annotations
 
-import copy
 
 from registry import Registry
 from service.usecases import methods
@@ -85,7 +84,7 @@ def plan(data: dict, registry: Registry, strict: bool = False) -> dict:
     result = {"pair": [it.ingredient_id or it.name for it in pair], "pair_hlb": {"low": low, "high": high}, "tests": tests,
               "test_batch_mass_g": batch_g,
               "equipment": equipment_out(balance, graduates, defaults)}
-    return envelope(result, {"request": copy.deepcopy(data)}, methods.SERIES_PLAN, values_used, warnings, registry,
+    return envelope(result, {"request": data}, methods.SERIES_PLAN, values_used, warnings, registry,
                     strict=strict, extra_cautions=methods.WORKSHEET_CAUTIONS)
 
 
@@ -134,4 +133,4 @@ def evaluate(data: dict, registry: Registry, strict: bool = False) -> dict:
               "best_test_hlb": est.best_hlb, "basis": est.basis, "refined": est.refined, "bracketed": est.bracketed,
               "uncertainty_hlb": unrounded(est.uncertainty_hlb), "note": est.note, "next_series_hlb": nxt,
               "next_series_percent_high_in_blend": shares}
-    return envelope(result, {"request": copy.deepcopy(data)}, methods.SERIES_EVALUATE, values_used, warnings, registry, strict=strict)
+    return envelope(result, {"request": data}, methods.SERIES_EVALUATE, values_used, warnings, registry, strict=strict)

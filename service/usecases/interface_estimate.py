@@ -4,7 +4,6 @@ request's) beside the practice formula's minimum (service.core.emulsifier,
 reused as it stands), each with its assumptions."""
 from __future__ import annotations
 
-import copy
 
 from registry import Registry, ValueRecord
 from service.core import emulsifier as practice
@@ -199,6 +198,6 @@ def estimate(data: dict, registry: Registry, strict: bool = False) -> dict:
         "basis": "grams for the emulsion described (dispersed plus continuous phase, emulsifier left out); g_per_100g per 100 g of it",
         "practice_to_interface_ratio": practice_out["mass_g"] / est.total_g if practice_out else None,
     }
-    inputs = {"request": copy.deepcopy(data), "avogadro_per_mol": interface.AVOGADRO_PER_MOL}
+    inputs = {"request": data, "avogadro_per_mol": interface.AVOGADRO_PER_MOL}
     warnings = _warnings(members) + practice_warnings
     return envelope(result, inputs, methods.INTERFACE_EMULSIFIER, values_used, warnings, registry, strict=strict)

@@ -4,7 +4,6 @@ neutralisation's stoichiometry. Molar masses of KOH and of the coproducts
 come from formulas, here at the edge, with molmass."""
 from __future__ import annotations
 
-import copy
 
 from molmass import Formula
 
@@ -112,5 +111,5 @@ def in_place(data: dict, registry: Registry, strict: bool = False) -> dict:
         "reaction": equation,
         "ionic_class": "anionic",
     }
-    inputs = {"request": copy.deepcopy(data), "koh_molar_mass_g_per_mol": KOH_G_PER_MOL}
+    inputs = {"request": data, "koh_molar_mass_g_per_mol": KOH_G_PER_MOL}
     return envelope(out, inputs, methods.SOAP_IN_PLACE, values_used, finding_warnings(findings), registry, strict=strict)

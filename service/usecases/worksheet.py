@@ -245,7 +245,7 @@ class Sheet:
 
 def worksheet(data: dict, registry: Registry, strict: bool = False, rescaled_from: dict | None = None) -> dict:
     sheet = worksheet_parts(data, registry, strict, rescaled_from)
-    return envelope(sheet.result, {"request": copy.deepcopy(data)}, sheet.method, sheet.values_used, sheet.warnings, registry,
+    return envelope(sheet.result, {"request": data}, sheet.method, sheet.values_used, sheet.warnings, registry,
                     strict=strict, extra_cautions=methods.WORKSHEET_CAUTIONS)
 
 

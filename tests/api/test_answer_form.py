@@ -11,6 +11,8 @@ import json
 import math
 
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 
 from service.core.errors import CalculationError
 from service.http.spec import build_spec
@@ -105,12 +107,19 @@ def test_every_operation_declares_indent():
             assert "422" in operation["responses"], (method, path)
 
 
-NESTED = {"a": 3.2352941176470584, "b": [11.600000000000001, {"c": 1e-12 / 3, "d": (0.1 + 0.2, 2)}], "e": "x", "f": None, "g": True, "h": 7}
+NESTED = {"a": 3.2352941176470584, "b": [11.600000000000001, {"c": 1e-12 / 3, "d": (0.1 + 0.2, 2)}], "e": "x", "f": None, "g": True, "h": 7,
+          "whole": [5.0, -0.0, 9999999999.0, 12345678901.0, -12345678901.0, 1e300]}
 
 
 def test_the_one_pass_tidies_as_tidy_does():
     assert answers._final(NESTED) == answers.tidy(NESTED)
     assert json.dumps(answers._final(NESTED)) == json.dumps(answers.tidy(NESTED))
+
+
+@given(st.floats(allow_nan=False, allow_infinity=False))
+def test_the_one_pass_agrees_with_tidy_on_every_float(x):
+    # _final skips formatting whole numbers below 1e10; tidy formats all.
+    assert json.dumps(answers._final({"x": x, "y": [x]})) == json.dumps(answers.tidy({"x": x, "y": [x]}))
 
 
 @pytest.mark.parametrize("bad", [math.inf, -math.inf, math.nan])
@@ -119,3 +128,27 @@ def test_the_one_pass_refuses_a_non_finite_result_naming_where(registry, bad):
     with pytest.raises(CalculationError) as caught:
         answers.envelope(result, {}, BLEND_HLB, [], [], registry)
     assert caught.value.rule == "finite_result" and "result/rows/1/mass_g" in caught.value.message
+
+
+def _containers(value):
+    """Every dict and list inside `value`, by identity."""
+    if isinstance(value, dict):
+        yield value
+        for v in value.values():
+            yield from _containers(v)
+    elif isinstance(value, (list, tuple)):
+        if isinstance(value, list):
+            yield value
+        for v in value:
+            yield from _containers(v)
+
+
+def test_the_answer_shares_no_dict_or_list_with_the_request(registry):
+    # The use cases hand the loaded request to the envelope uncopied: the
+    # one pass builds new dicts and lists, so a later change to the answer
+    # (the batch's shared sources, a caller's test) cannot reach the request.
+    request = {"components": [{"amount": {"value": 1.5, "unit": "g"}}], "pair": ({"ingredient": "x"},)}
+    answer = answers.envelope({"rows": [request["components"][0]]}, {"request": request}, BLEND_HLB, [], [], registry)
+    seen = {id(c) for c in _containers(request)} - {id(request["pair"][0])}  # a tuple is kept as it is, members and all
+    assert not seen & {id(c) for c in _containers(answer)}
+    assert answer["inputs"]["request"] == request
