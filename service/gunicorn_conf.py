@@ -11,6 +11,7 @@ import shutil
 import tempfile
 
 from service.http import logs as _logs
+from service.malloc_arenas import cap_malloc_arenas
 
 # prometheus_client's multiprocess mode (service/http/metrics.py): every
 # worker writes its counts to files in this folder and /metrics adds them
@@ -33,6 +34,9 @@ elif os.environ.get("EMULSION_METRICS_DIR_OF") != str(os.getpid()):
     for _path in glob.glob(os.path.join(os.environ["PROMETHEUS_MULTIPROC_DIR"], "*.db")):
         os.remove(_path)
 os.environ["EMULSION_METRICS_DIR_OF"] = str(os.getpid())
+
+# Before any thread exists, so that the workers inherit it at fork.
+cap_malloc_arenas()
 
 from service.http.config import ServerSettings, SettingError, Settings, whole_number
 from service.startup import refuse

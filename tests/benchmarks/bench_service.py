@@ -158,13 +158,29 @@ def one(port: int, payload: bytes) -> tuple[int, bytes]:
         return status, body
 
 
+# A client process's kept-alive connection, kept from one measurement to the
+# next of a pair (see throughput).
+_KEPT: dict = {}
+
+
 def _client(args) -> int:
     """A client process's part of one measurement: requests answered 200
-    until `stop_at`, on one kept-alive connection (or a fresh one each time)."""
-    port, payload, start_at, stop_at, fresh = args
+    until `stop_at`, on one kept-alive connection (or a fresh one each time).
+    With `keep`, the connection of this process's previous measurement is
+    used again."""
+    port, payload, start_at, stop_at, fresh, keep = args
+    sock, buffer = _KEPT.pop("sock", (None, b"")) if keep and not fresh else (None, b"")
+    if not keep:
+        old, _ = _KEPT.pop("sock", (None, b""))
+        if old is not None:
+            old.close()
+    if sock is None and not fresh:
+        # Opened before the start, as a kept one was: a connection's cost is
+        # not part of a kept-alive measurement.
+        sock = connect(port)
     while time.time() < start_at:
         time.sleep(0.0005)
-    done, sock, buffer = 0, None, b""
+    done = 0
     while time.time() < stop_at:
         try:
             if sock is None:
@@ -183,13 +199,18 @@ def _client(args) -> int:
             sock.close()
             sock = None
     if sock is not None:
-        sock.close()
+        _KEPT["sock"] = (sock, buffer)
     return done
 
 
-def throughput(pool, port: int, payload: bytes, clients: int, seconds: float, fresh: bool) -> float:
+def throughput(pool, port: int, payload: bytes, clients: int, seconds: float, fresh: bool, keep: bool = False) -> float:
+    """Requests per second. gthread workers take connections as they come, so
+    4 kept-alive connections may land 2 and 2 on the two workers or all 4 on
+    one, which halves the rate: `keep` measures on the connections of the
+    measurement before (each of the `clients` processes runs one part of
+    each), so that an operation and its reference meet the same spread."""
     start_at = time.time() + 0.05
-    counts = pool.map(_client, [(port, payload, start_at, start_at + seconds, fresh)] * clients)
+    counts = pool.map(_client, [(port, payload, start_at, start_at + seconds, fresh, keep)] * clients, chunksize=1)
     return sum(counts) / seconds
 
 
@@ -298,6 +319,13 @@ def format_memory(mb: dict[str, float], before: dict[str, float] | None = None) 
     return ", ".join(one(key, name) for key, name in (("rss", "RSS"), ("uss", "USS"), ("pss", "PSS")) if key in mb)
 
 
+def format_change(mb: dict[str, float], before: dict[str, float] | None) -> str:
+    if not before:
+        return "new worker"
+    return ", ".join(f"{name} {mb[key] - before[key]:+.1f}" for key, name in (("rss", "RSS"), ("uss", "USS"), ("pss", "PSS"))
+                     if key in mb and key in before) + " MB"
+
+
 # -- the table --------------------------------------------------------------
 
 def format_table(rows: list[dict]) -> str:
@@ -330,7 +358,7 @@ def measure_rows(port: int, clients: int, seconds: float, rounds: int, fresh: bo
             for case, _, payload, reference in plans:
                 ours, theirs = results[case.label]
                 ours.append(throughput(pool, port, payload, clients, seconds, fresh))
-                theirs.append(throughput(pool, port, reference, clients, seconds, fresh))
+                theirs.append(throughput(pool, port, reference, clients, seconds, fresh, keep=True))
             print(f"  round {r + 1} of {rounds} done")
     rows = []
     for case, size, *_ in plans:
@@ -378,15 +406,22 @@ def part_memory(args) -> None:
         print(f"master {server.proc.pid}: {format_memory(memory_mb(server.proc.pid))}")
         print("after warm-up:\n" + "\n".join(f"  worker {pid}: {format_memory(mb)}" for pid, mb in before.items()))
         if args.long:
-            start = time.perf_counter()
-            per_case = max(1, args.long // len(plans))
+            # Five legs, each measured: growth that levels off (pages made
+            # private once, arenas filled once) shows apart from a leak,
+            # which keeps growing in every leg.
+            start, sent, previous = time.perf_counter(), 0, before
+            legs = 5
+            per_leg = max(1, args.long // legs // len(plans) // args.clients)
             with multiprocessing.get_context("fork").Pool(args.clients) as pool:
-                pool.map(_long_client, [(server.port, plans, per_case // args.clients or 1)] * args.clients)
-            sent = per_case // args.clients * args.clients * len(plans) or len(plans) * args.clients
-            after = {pid: memory_mb(pid) for pid in server.workers()}
-            same = "same workers" if set(after) == set(before) else "the workers changed"
-            print(f"after {sent} more requests ({time.perf_counter() - start:.0f} s, {same}):\n"
-                  + "\n".join(f"  worker {pid}: {format_memory(mb, before.get(pid))}" for pid, mb in after.items()))
+                for leg in range(1, legs + 1):
+                    pool.map(_long_client, [(server.port, plans, per_leg)] * args.clients)
+                    sent += per_leg * args.clients * len(plans)
+                    after = {pid: memory_mb(pid) for pid in server.workers()}
+                    same = "same workers" if set(after) == set(before) else "the workers changed"
+                    print(f"after {sent} more requests ({time.perf_counter() - start:.0f} s, {same}; change since warm-up, then since the last leg):\n"
+                          + "\n".join(f"  worker {pid}: {format_memory(mb, before.get(pid))}; this leg {format_change(mb, previous.get(pid))}"
+                                       for pid, mb in after.items()), flush=True)
+                    previous = after
 
 
 def _long_client(args) -> None:
