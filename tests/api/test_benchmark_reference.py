@@ -48,3 +48,12 @@ def test_the_benchmark_covers_every_example_and_its_table_lines_up():
     header, rule, row = table.splitlines()
     assert header.count("|") == rule.count("|") == row.count("|") == 6
     assert row == "| blendHlb (by_mass) | 4729 | 1283 | 3783 | 0.34 |"
+
+
+def test_the_answer_snapshot_writes_every_example_answered(tmp_path):
+    from tests.benchmarks.answer_snapshot import snapshot
+
+    written = snapshot(tmp_path)
+    names = sorted(p.name for p in tmp_path.iterdir())
+    assert written == len(names) > len(bench_service.cases())
+    assert all(name.endswith("-200") for name in names), [n for n in names if not n.endswith("-200")]
