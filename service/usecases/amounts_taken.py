@@ -8,7 +8,6 @@ compounding record keeps); amounts_taken is the endpoint's use case, which
 recomputes the worksheet from its request and never trusts figures sent back."""
 from __future__ import annotations
 
-
 from registry import Registry
 from service.core.deviations import Deviation, deviation, mass_g_from_volume, volume_ml_from_mass, yield_percent
 from service.units import to_canonical

@@ -5,7 +5,6 @@ USP <795>'s records with what is still to fill. Computed where it can be;
 left as fields to fill where only a person can fill them. No Flask here."""
 from __future__ import annotations
 
-
 from registry import Registry
 from service.core.errors import UnverifiedValuesRefused
 from service.core.procedure import heating, procedure

@@ -3,7 +3,6 @@ when it is given by mass), the primary emulsion by kind of oil, the dry-gum
 and wet-gum methods as steps, and the rest of the water to final amount."""
 from __future__ import annotations
 
-
 from registry import Registry
 from service.core import gum_emulsions as gum
 from service.core.findings import Finding

@@ -2,7 +2,6 @@
 are computed here, at the edge, with molmass."""
 from __future__ import annotations
 
-
 from molmass import Formula, FormulaError
 
 from registry import Registry

@@ -1,7 +1,6 @@
 """The required-HLB test series: planning it, and reading its results."""
 from __future__ import annotations
 
-
 from registry import Registry
 from service.usecases import methods
 from service.usecases.answers import envelope, hlb_display, unrounded, finding_warnings

@@ -4,7 +4,6 @@ request's) beside the practice formula's minimum (service.core.emulsifier,
 reused as it stands), each with its assumptions."""
 from __future__ import annotations
 
-
 from registry import Registry, ValueRecord
 from service.core import emulsifier as practice
 from service.core import interface

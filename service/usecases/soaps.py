@@ -4,7 +4,6 @@ neutralisation's stoichiometry. Molar masses of KOH and of the coproducts
 come from formulas, here at the edge, with molmass."""
 from __future__ import annotations
 
-
 from molmass import Formula
 
 from registry import Registry
