@@ -152,3 +152,14 @@ def test_the_answer_shares_no_dict_or_list_with_the_request(registry):
     seen = {id(c) for c in _containers(request)} - {id(request["pair"][0])}  # a tuple is kept as it is, members and all
     assert not seen & {id(c) for c in _containers(answer)}
     assert answer["inputs"]["request"] == request
+
+
+def test_a_cycle_still_fails_to_encode():
+    # The compact encoder skips the circular-reference check (service/http/jsonio.py):
+    # a cycle, which no answer can hold, must still raise rather than pass.
+    from service.http import jsonio
+
+    looped: dict = {}
+    looped["self"] = looped
+    with pytest.raises(RecursionError):
+        jsonio.encode(looped)
