@@ -171,15 +171,14 @@ def _client(args) -> float:
     With `keep`, the connection of this process's previous measurement is
     used again."""
     port, payload, start_at, stop_at, fresh, keep = args
-    sock, buffer = _KEPT.pop("sock", (None, b"")) if keep and not fresh else (None, b"")
-    if not keep:
-        old, _ = _KEPT.pop("sock", (None, b""))
-        if old is not None:
-            old.close()
+    sock, buffer = _KEPT.pop("sock", (None, b""))
+    if sock is not None and not keep:
+        sock.close()
+        sock, buffer = None, b""
     if sock is None and not fresh:
         # Opened before the start, as a kept one was: a connection's cost is
         # not part of a kept-alive measurement.
-        sock = connect(port)
+        sock, buffer = connect(port), b""
     while time.time() < start_at:
         time.sleep(0.0005)
     done = 0
@@ -333,17 +332,19 @@ def memory_mb(pid: int) -> dict[str, float]:
         return {"rss": rss_mb(pid)}
 
 
+MEMORY_KINDS = (("rss", "RSS"), ("uss", "USS"), ("pss", "PSS"))
+
+
 def format_memory(mb: dict[str, float], before: dict[str, float] | None = None) -> str:
     def one(key: str, name: str) -> str:
         return f"{name} {mb[key]:.1f} MB" + (f" ({mb[key] - before[key]:+.1f})" if before and key in before else "")
-    return ", ".join(one(key, name) for key, name in (("rss", "RSS"), ("uss", "USS"), ("pss", "PSS")) if key in mb)
+    return ", ".join(one(key, name) for key, name in MEMORY_KINDS if key in mb)
 
 
 def format_change(mb: dict[str, float], before: dict[str, float] | None) -> str:
     if not before:
         return "new worker"
-    return ", ".join(f"{name} {mb[key] - before[key]:+.1f}" for key, name in (("rss", "RSS"), ("uss", "USS"), ("pss", "PSS"))
-                     if key in mb and key in before) + " MB"
+    return ", ".join(f"{name} {mb[key] - before[key]:+.1f}" for key, name in MEMORY_KINDS if key in mb and key in before) + " MB"
 
 
 # -- the table --------------------------------------------------------------
@@ -358,8 +359,9 @@ def format_table(rows: list[dict]) -> str:
 
 
 def measure_rows(port: int, clients: int, seconds: float, rounds: int, fresh: bool, match: str = "", slices: int = 5) -> list[dict]:
-    """Each case and its reference, one after the other in each round; the
-    rounds interleaved, so that a slow spell of the machine falls on both."""
+    """Each case and its reference, in alternating turns (paired_throughput)
+    in each round; the rounds interleaved, so that a slow spell of the
+    machine falls on both."""
     plans = []
     for case in cases(match):
         status, body = one(port, request_bytes(case, port=port))
