@@ -30,6 +30,16 @@ def method_block(method: Method, registry: Registry) -> dict:
     }
 
 
+class CheckedAnswer(dict):
+    """An answer as the envelope returns it. Its numbers are all finite: the
+    result, inputs and values used passed _final, and the rest (method,
+    warnings, cautions, registry version) holds strings and booleans only.
+    The HTTP layer may therefore write it with an encoder that does not
+    check for NaN and Infinity itself (service/http/jsonio.py)."""
+
+    __slots__ = ()
+
+
 class _NonFinite(Exception):
     """A non-finite number met by _final."""
 
@@ -102,7 +112,7 @@ def _warning(w: dict) -> dict:
 
 
 def envelope(result: dict, inputs: dict, method: Method, values_used: Iterable[ValueUsed], warnings: list[dict], registry: Registry,
-             strict: bool = False, extra_cautions: tuple[str, ...] = ()) -> dict:
+             strict: bool = False, extra_cautions: tuple[str, ...] = ()) -> CheckedAnswer:
     """The whole answer. A result that overflowed (extreme but valid inputs)
     is refused rather than written out as a wrong number."""
     try:
@@ -113,7 +123,7 @@ def envelope(result: dict, inputs: dict, method: Method, values_used: Iterable[V
         where = _where({"result": result, "inputs": inputs})
         raise CalculationError((), "finite_result", f"the inputs give a result out of range ({'/'.join(map(str, where or ('result',)))}); "
                                                     "check the amounts and units") from None
-    return {
+    return CheckedAnswer({
         "result": final["result"],
         "inputs": final["inputs"],
         "method": method_block(method, registry),
@@ -122,7 +132,7 @@ def envelope(result: dict, inputs: dict, method: Method, values_used: Iterable[V
         "cautions": list(CAUTIONS) + list(extra_cautions),
         "strict": strict,
         "registry": registry_version(registry),
-    }
+    })
 
 
 def hlb_display(value: float) -> float:

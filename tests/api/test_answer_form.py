@@ -163,3 +163,62 @@ def test_a_cycle_still_fails_to_encode():
     looped["self"] = looped
     with pytest.raises(RecursionError):
         jsonio.encode(looped)
+
+
+# The compact form of a calculation's answer is written by orjson
+# (service/http/jsonio.py), everything else by json; the reference for both
+# is json.dumps (Python documentation). orjson's own guarantee is RFC 8259
+# output; what is checked here is that it writes the same values.
+_JSON_VALUES = st.recursive(
+    st.none() | st.booleans() | st.integers(-2**63, 2**63 - 1) | st.floats(allow_nan=False, allow_infinity=False) | st.text(),
+    lambda inner: st.lists(inner, max_size=4) | st.dictionaries(st.text(max_size=8), inner, max_size=4), max_leaves=30)
+
+
+@given(_JSON_VALUES)
+def test_a_checked_answer_is_written_with_the_same_values_json_writes(value):
+    from service.http import jsonio
+
+    body = jsonio.encode(answers.CheckedAnswer({"result": value}))
+    assert json.loads(body) == json.loads(_compact({"result": value}))
+    assert body.endswith(b"\n") and b"\n" not in body[:-1]
+
+
+def test_a_checked_answer_orjson_refuses_falls_back_to_json():
+    # orjson refuses integers beyond 64 bits and lone surrogates; json writes
+    # both, and the answer must not turn into a 500 for an echoed request.
+    from service.http import jsonio
+
+    for value in (2**70, -2**64, "\ud800"):
+        assert jsonio.encode(answers.CheckedAnswer({"echo": value})) == _compact({"echo": value})
+
+
+@pytest.mark.parametrize("bad", [math.inf, math.nan])
+def test_a_plain_dict_with_a_non_finite_number_is_still_refused(bad):
+    # orjson would write null: only an answer the envelope checked reaches it.
+    from service.http import jsonio
+
+    with pytest.raises(ValueError):
+        jsonio.encode({"x": bad})
+
+
+def test_the_envelope_returns_a_checked_answer(registry):
+    answer = answers.envelope({"x": 1.5}, {}, BLEND_HLB, [], [], registry)
+    assert type(answer) is answers.CheckedAnswer
+
+
+def test_every_calculation_answer_goes_the_checked_road(client, monkeypatch):
+    # A use case's answer must reach encode as the envelope built it, not
+    # rebuilt into a plain dict on the way (which would silently lose the
+    # faster encoder, and for a dict carrying a NaN, the refusal).
+    from service.http import jsonio
+
+    kinds, seen = [], 0
+    real = jsonio.encode
+    monkeypatch.setattr("service.http.bodies.encode", lambda obj, indent=0: kinds.append(type(obj)) or real(obj, indent))
+    for op_id, method, path, body in _requests(build_spec()):
+        if method == "POST" and path.startswith("/v1/") and path != "/v1/batch":
+            kinds.clear()
+            assert client.open(path, method=method, json=body).status_code == 200, op_id
+            assert kinds == [answers.CheckedAnswer], op_id
+            seen += 1
+    assert seen >= 15
