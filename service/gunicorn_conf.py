@@ -11,6 +11,7 @@ import shutil
 import tempfile
 
 from service.http import logs as _logs
+from service.gunicorn_logger import QuietAccessLogger
 from service.malloc_arenas import cap_malloc_arenas
 
 # prometheus_client's multiprocess mode (service/http/metrics.py): every
@@ -92,6 +93,9 @@ accesslog = None
 errorlog = "-"
 loglevel = _server.log_level
 logconfig_dict = _logs.logconfig(loglevel)
+
+# gunicorn's access line is off, its cost too (service/gunicorn_logger.py).
+logger_class = QuietAccessLogger
 
 
 def when_ready(server):
