@@ -57,3 +57,16 @@ def test_the_answer_snapshot_writes_every_example_answered(tmp_path):
     names = sorted(p.name for p in tmp_path.iterdir())
     assert written == len(names) > len(bench_service.cases())
     assert all(name.endswith("-200") for name in names), [n for n in names if not n.endswith("-200")]
+
+
+def test_the_cost_parts_clock_reads_a_process_cpu_time():
+    # The cost part's clock (proc(5): utime and stime in clock ticks), read
+    # on this process against the standard library's own count of it.
+    import os
+    import time
+
+    before, theirs = bench_service.worker_cpu_s(os.getpid()), time.process_time()
+    while time.process_time() - theirs < 0.2:
+        pass
+    spent = bench_service.worker_cpu_s(os.getpid()) - before
+    assert 0.15 <= spent <= 0.5

@@ -8,6 +8,11 @@ does not start with test_). Every part prints as it goes:
               measured in turns with it (5 a measurement, on the same kept-alive
               connections), in three interleaved rounds; one table, the ratio
               being the median of the rounds' ratios
+  cost        the CPU time a worker spends on one request of each calculation and on
+              its reference, one worker and one kept-alive connection, requests sent
+              one after the other: unlike requests per second, CPU time does not
+              depend on how the connections spread or on what else the machine runs;
+              the difference is the service's own cost of the calculation
   startup     exec of gunicorn to the first answered /healthz, with the shipped
               registry and with one of 1000 surfactants (tests/benchmarks/big_registry.py)
   memory      each worker's memory after warm-up and, with --long N, after N more
@@ -43,7 +48,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 REPO = Path(__file__).resolve().parents[2]
-PARTS = ("throughput", "startup", "memory", "pairs", "inprocess")
+PARTS = ("throughput", "cost", "startup", "memory", "pairs", "inprocess")
 REFERENCE_PATH = "/_benchmark/reference/{size}"
 PORTS = range(18100, 19000)
 
@@ -258,9 +263,11 @@ def healthz_answered(port: int) -> bool:
 class Server:
     """gunicorn with the project's configuration, on a free loopback port."""
 
-    def __init__(self, registry_root: str | None = None, extra_args: tuple[str, ...] = (), timeout_s: float = 60):
+    def __init__(self, registry_root: str | None = None, extra_args: tuple[str, ...] = (), timeout_s: float = 60,
+                 environ: dict[str, str] | None = None):
         self.port = free_port()
-        env = {**os.environ, "EMULSION_BIND": f"127.0.0.1:{self.port}", "EMULSION_BENCHMARK": "1", "PYTHONPATH": str(REPO)}
+        env = {**os.environ, **(environ or {}), "EMULSION_BIND": f"127.0.0.1:{self.port}", "EMULSION_BENCHMARK": "1",
+               "PYTHONPATH": str(REPO)}
         env.pop("PROMETHEUS_MULTIPROC_DIR", None)
         if registry_root:
             env["EMULSION_REGISTRY_ROOT"] = registry_root
@@ -277,7 +284,7 @@ class Server:
             time.sleep(0.005)
         self.startup_s = time.perf_counter() - started
         # /healthz is answered by the first worker up; the others follow.
-        expected = int(os.environ.get("EMULSION_WORKERS", "2"))
+        expected = int(env.get("EMULSION_WORKERS", "2"))
         while len(self.workers()) < expected and time.perf_counter() - started < timeout_s:
             time.sleep(0.01)
 
@@ -403,6 +410,46 @@ def part_throughput(args) -> None:
             if row.get("items", 1) > 1:
                 print(f"{row['label']}: {row['items']} items a request, {row['rps'] * row['items']:.0f} items/s"
                       + (f", {row['rps'] * row['items'] / single['rps']:.1f}x the {single['label']} requests/s" if single else ""))
+
+
+def worker_cpu_s(pid: int) -> float:
+    """User and system CPU time of a process so far, from /proc/PID/stat."""
+    fields = Path(f"/proc/{pid}/stat").read_text().rpartition(")")[2].split()
+    return (int(fields[11]) + int(fields[12])) / os.sysconf("SC_CLK_TCK")
+
+
+def cpu_per_request_us(sock: socket.socket, pid: int, payload: bytes, n: int) -> float:
+    """Worker CPU per request over `n` requests sent one after the other, after a warm-up of n // 5."""
+    buffer = b""
+    for i in range(n // 5 + n):
+        if i == n // 5:
+            started = worker_cpu_s(pid)
+        sock.sendall(payload)
+        status, _, buffer = read_response(sock, buffer)
+        if status != 200:
+            raise RuntimeError(f"answered {status}")
+    return (worker_cpu_s(pid) - started) / n * 1e6
+
+
+def part_cost(args) -> None:
+    n = 300 if args.quick else 1500
+    print(f"\n## Cost: worker CPU per request, 1 worker, 1 kept-alive connection, {n} requests one after the other (clock ticks of "
+          f"{1e3 / os.sysconf('SC_CLK_TCK'):.0f} ms: {1e7 / os.sysconf('SC_CLK_TCK') / n:.0f} us a request at most)")
+    rows = []
+    with Server(extra_args=("--max-requests", "0"), environ={"EMULSION_WORKERS": "1"}) as server:
+        [pid] = server.workers()
+        with connect(server.port) as sock:
+            for case in cases(args.match):
+                status, body = one(server.port, request_bytes(case, port=server.port))
+                if status != 200:
+                    raise RuntimeError(f"{case.label} answered {status}")
+                reference = request_bytes(case, REFERENCE_PATH.format(size=len(body)), server.port)
+                ours = cpu_per_request_us(sock, pid, request_bytes(case, port=server.port), n)
+                theirs = cpu_per_request_us(sock, pid, reference, n)
+                rows.append((case.label, len(body), ours, theirs))
+    print("| Operation | Answer bytes | Worker CPU us/request | Reference us/request | Own cost us |\n|---|---:|---:|---:|---:|")
+    for label, size, ours, theirs in rows:
+        print(f"| {label} | {size} | {ours:.0f} | {theirs:.0f} | {ours - theirs:.0f} |")
 
 
 def part_startup(args, big_root: str) -> None:
@@ -553,6 +600,8 @@ def main(argv: list[str] | None = None) -> None:
         for part in parts:
             if part == "throughput":
                 part_throughput(args)
+            elif part == "cost":
+                part_cost(args)
             elif part == "startup":
                 part_startup(args, big_root)
             elif part == "memory":
