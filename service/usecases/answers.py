@@ -153,13 +153,24 @@ def unrounded(value: float) -> float:
 
 def tidy(value):
     """Floats cut to 10 significant digits: float noise such as
-    3.2352941176470584 is not precision, and no balance reads past it."""
+    3.2352941176470584 is not precision, and no balance reads past it.
+    Through the envelope's one pass, which gives the same values (tested)
+    at about half the time; a tree holding a non-finite number takes the
+    plain walk, which leaves it for the envelope to refuse, naming where."""
+    try:
+        return _final(value)
+    except _NonFinite:
+        return tidy_walk(value)
+
+
+def tidy_walk(value):
+    """tidy, a node at a time: the definition _final is held to."""
     if isinstance(value, float):
         return float(f"{value:.10g}")
     if isinstance(value, dict):
-        return {k: tidy(v) for k, v in value.items()}
+        return {k: tidy_walk(v) for k, v in value.items()}
     if isinstance(value, list):
-        return [tidy(v) for v in value]
+        return [tidy_walk(v) for v in value]
     return value
 
 UNPUBLISHED_METHOD = ("the minimum emulsifier estimate comes from calculation practice and no primary publication for it could be "
