@@ -1,8 +1,9 @@
 """Request and answer of the amounts actually taken for a worksheet's batch."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields
+from marshmallow import fields
 
+from service.http.schemas.base_schema import Schema
 from service.http.schemas.common import AbsoluteAmountSchema, MassSchema
 from service.http.schemas.fields import BoundedList, Integer, Nested, Number, ingredient_id
 from service.http.schemas.responses import AmountOutSchema, answer

@@ -1,8 +1,9 @@
 """The batch call: many calculations in one request, answered item by item."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields, validate
+from marshmallow import fields, validate
 
+from service.http.schemas.base_schema import Schema
 from service.http.schemas.enums import BATCH_OPERATIONS
 from service.http.schemas.fields import Boolean, BoundedList, Nested
 from service.http.schemas.meta import ProblemSchema

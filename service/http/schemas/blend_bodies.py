@@ -2,8 +2,9 @@
 more surfactants for a target HLB under bounds, fixed shares and ratios."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields
+from marshmallow import fields
 
+from service.http.schemas.base_schema import Schema
 from service.http.schemas.calculation_requests import MAX_COMPONENTS
 from service.http.schemas.common import AbsoluteAmountSchema, IngredientRefSchema
 from service.http.schemas.enums import enum_field

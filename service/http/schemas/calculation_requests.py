@@ -1,8 +1,7 @@
 """Request bodies of the four calculations."""
 from __future__ import annotations
 
-from marshmallow import Schema
-
+from service.http.schemas.base_schema import Schema
 from service.http.schemas.common import (
     EMULSION_TYPES,
     AbsoluteAmountSchema,

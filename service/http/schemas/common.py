@@ -2,8 +2,7 @@
 ways of naming an ingredient (a registry id, or inline values)."""
 from __future__ import annotations
 
-from marshmallow import Schema
-
+from service.http.schemas.base_schema import Schema
 from service.http.schemas.fields import Boolean, Nested, Number, ingredient_id, one_of, text
 from service.http.schemas.rules import RuleChecks, exactly_one, within_unit_bounds
 from service.usecases.measuring import CAPACITY_G, CAPACITY_ML, READABILITY_G, SENSITIVITY_G, SUBDIVISION_ML

@@ -2,8 +2,9 @@
 series."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields, validate
+from marshmallow import fields, validate
 
+from service.http.schemas.base_schema import Schema
 from service.http.schemas.responses import RangeSchema, RegistryVersionSchema, answer
 from service.http.schemas.calculation_requests import OilComponentSchema
 from service.http.schemas.common import EMULSION_TYPES, IngredientRefSchema, MassSchema

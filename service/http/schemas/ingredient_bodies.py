@@ -2,7 +2,9 @@
 provenance, and the bibliography."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields, validate
+from marshmallow import fields, validate
+
+from service.http.schemas.base_schema import Schema
 
 from registry.model import FUNCTIONS
 from service.http.schemas.responses import CitationSchema, RegistryVersionSchema

@@ -2,7 +2,9 @@
 (POST /v1/emulsifier/interface-estimate)."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields
+from marshmallow import fields
+
+from service.http.schemas.base_schema import Schema
 
 from registry.model import AREA_BASES
 from service.http.schemas.common import AbsoluteAmountSchema, DensitySchema, IngredientRefSchema

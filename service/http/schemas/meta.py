@@ -1,8 +1,9 @@
 """Health and the problem-details shape, for the spec."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields
+from marshmallow import fields
 
+from service.http.schemas.base_schema import Schema
 from service.http.schemas.enums import enum_field
 from service.http.problems import MAX_ERRORS
 from service.http.schemas.responses import RegistryVersionSchema

@@ -4,8 +4,9 @@ lot and expiry, the compounding date and the people), and the record that
 comes back."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields
+from marshmallow import fields
 
+from service.http.schemas.base_schema import Schema
 from service.http.schemas.fields import Boolean, BoundedList, FullMatch, Nested, Number, ingredient_id, one_of, text
 from service.http.schemas.responses import AmountOutSchema, CitationSchema, answer
 from service.http.schemas.amounts_taken_bodies import MAX_ROWS, AmountsTakenResultSchema, TakenSchema

@@ -4,8 +4,9 @@ values used with their provenance, warnings, cautions, and the registry
 version that produced it."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields
+from marshmallow import fields
 
+from service.http.schemas.base_schema import Schema
 from service.http.schemas.enums import enum_field
 
 NullableNumber = lambda **kw: fields.Float(allow_none=True, **kw)  # noqa: E731

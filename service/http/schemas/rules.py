@@ -11,7 +11,9 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Callable
 
-from marshmallow import Schema, ValidationError, validates_schema
+from marshmallow import ValidationError, validates_schema
+
+from service.http.schemas.base_schema import Schema
 
 
 class Fault(str):

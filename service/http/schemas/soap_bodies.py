@@ -1,8 +1,9 @@
 """Requests and answers of the soaps made in place and the gum emulsions."""
 from __future__ import annotations
 
-from marshmallow import Schema, fields
+from marshmallow import fields
 
+from service.http.schemas.base_schema import Schema
 from service.http.schemas.common import AbsoluteAmountSchema, BatchSizeSchema, IngredientRefSchema, MassSchema
 from service.http.schemas.fields import Boolean, Nested, Number, ingredient_id, one_of, text
 from service.http.schemas.responses import AmountOutSchema, answer
