@@ -18,6 +18,7 @@ from service.http.operations import CALCULATIONS
 from service.http.schemas import base_schema
 from service.http.schemas.batch_bodies import BatchRequestSchema
 from service.http.spec_examples import EXAMPLES
+from tests.json_tree import DROP, changed, get, paths
 
 _CASES = [(op_id, name, example["value"]) for op_id, op in CALCULATIONS.items() for name, example in EXAMPLES.get(op_id, {}).items()]
 _SCHEMAS = {op_id: op.request for op_id, op in CALCULATIONS.items()}
@@ -41,17 +42,6 @@ def _both(schema, data, monkeypatch):
         m.setattr(base_schema.Schema, "_deserialize", MarshmallowSchema._deserialize)
         theirs = _outcome(schema, copy.deepcopy(data))
     return ours, theirs
-
-
-def _paths(value, path=()):
-    """Every member's and item's path in a JSON tree, the root's included."""
-    yield path
-    if isinstance(value, dict):
-        for key, item in value.items():
-            yield from _paths(item, path + (key,))
-    elif isinstance(value, list):
-        for i, item in enumerate(value):
-            yield from _paths(item, path + (i,))
 
 
 def test_every_schema_of_a_request_is_the_services():
@@ -82,26 +72,16 @@ def test_the_spec_examples_load_alike(op_id, name, body, monkeypatch):
 @given(st.data())
 def test_broken_bodies_are_refused_alike(monkeypatch, data):
     op_id, _name, body = data.draw(st.sampled_from(_CASES))
-    body = copy.deepcopy(body)
-    path = data.draw(st.sampled_from(list(_paths(body))))
+    path = data.draw(st.sampled_from(list(paths(body))))
     kind = data.draw(st.sampled_from(["remove", "replace", "add"]))
-    if path == ():
+    if kind == "add" and isinstance(get(body, path), dict):
+        body = changed(body, path + (data.draw(st.text(min_size=1, max_size=8)),), data.draw(_JSON))
+    elif path == ():
         body = data.draw(_JSON) if kind == "replace" else body
-    else:
-        *parents, last = path
-        holder = body
-        for step in parents:
-            holder = holder[step]
-        if kind == "remove" and isinstance(holder, dict):
-            del holder[last]
-        elif kind == "replace":
-            holder[last] = data.draw(_JSON)
-    if kind == "add":
-        target = body
-        for step in path:
-            target = target[step] if isinstance(target, (dict, list)) else target
-        if isinstance(target, dict):
-            target[data.draw(st.text(min_size=1, max_size=8))] = data.draw(_JSON)
+    elif kind == "replace":
+        body = changed(body, path, data.draw(_JSON))
+    elif kind == "remove" and isinstance(get(body, path[:-1]), dict):
+        body = changed(body, path, DROP)
     ours, theirs = _both(_SCHEMAS[op_id], body, monkeypatch)
     assert ours == theirs
 

@@ -8,7 +8,6 @@ which jsonschema_rs refuses: such a file goes to jsonschema and is judged as
 before). A file the compiled one passed while jsonschema refuses it would be
 served unchecked: no shipped file, and no file made from one by a single
 change to one of its fields, may be one."""
-import copy
 import datetime
 import json
 import tomllib
@@ -18,6 +17,7 @@ from jsonschema import Draft202012Validator
 
 from registry.loader import DEFAULT_ROOT
 from registry.validation import SCHEMA_DIR, validator
+from tests.json_tree import DROP, changed, get, paths
 
 TABLES = {"registry.toml": "release.schema.json", "sources.toml": "sources.schema.json",
           "davies_groups.toml": "davies.schema.json", "beyond_use_dates.toml": "beyond_use_dates.schema.json"}
@@ -31,37 +31,8 @@ def _files():
         yield path, "ingredient.schema.json"
 
 
-def _leaves(data, path=()):
-    if isinstance(data, dict):
-        for key, value in data.items():
-            yield from _leaves(value, path + (key,))
-    elif isinstance(data, list):
-        for i, value in enumerate(data):
-            yield from _leaves(value, path + (i,))
-    yield path
-
-
-def _get(data, path):
-    for step in path:
-        data = data[step]
-    return data
-
-
-def _set(data, path, value):
-    out = copy.deepcopy(data)
-    target = out
-    for step in path[:-1]:
-        target = target[step]
-    if value is _DROP:
-        del target[path[-1]]
-    else:
-        target[path[-1]] = value
-    return out
-
-
-_DROP = object()
 # A wrong type of each kind, TOML's own date and time, and out-of-range numbers.
-REPLACEMENTS = [_DROP, "", "text", -1, 0, 1e9, float("nan"), True, [], {}, datetime.date(2020, 1, 2),
+REPLACEMENTS = [DROP, "", "text", -1, 0, 1e9, float("nan"), True, [], {}, datetime.date(2020, 1, 2),
                 datetime.datetime(2020, 1, 2, 3, 4), 2**70]
 
 
@@ -93,14 +64,14 @@ SAMPLE = [(p, s) for p, s in _files() if s != "ingredient.schema.json"] + [
 def test_one_change_anywhere_is_never_passed_unchecked(path, schema):
     data = tomllib.loads(path.read_text(encoding="utf-8"))
     differ = []
-    for where in _leaves(data):
+    for where in paths(data):
         if not where:
             continue
         for value in REPLACEMENTS:
-            changed = _set(data, where, value)
-            if not _same_verdict(changed, schema):
+            variant = changed(data, where, value)
+            if not _same_verdict(variant, schema):
                 differ.append((where, value))
-        if isinstance(_get(data, where), dict) and not _same_verdict(_set(data, where + ("unknown_field",), 1), schema):
+        if isinstance(get(data, where), dict) and not _same_verdict(changed(data, where + ("unknown_field",), 1), schema):
             differ.append((where, "unknown_field"))
     assert not differ
 
