@@ -74,8 +74,9 @@ def strict_loads(text: str | bytes):
 
 # Compact by default: a calculation's answer through orjson (encode), the
 # rest (problems, registry listings, an answer orjson refuses) through json's
-# C encoder, which runs only with indent=None; indented on request (the `indent` query parameter), for
-# a person reading at a terminal. No check for circular references: every
+# C encoder, which runs only with indent=None; indented on request (the
+# `indent` query parameter), for a person reading at a terminal. In json's
+# compact encoder, no check for circular references: every
 # answer is a tree the envelope's one pass has just built (a cycle would
 # have stopped that pass), every problem a tree of fresh dicts, and the
 # check's bookkeeping for each container was 40 % of encoding a worksheet.
